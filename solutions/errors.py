@@ -1,0 +1,105 @@
+"""One error family for the package, and the warning that travels with results.
+
+Every concrete error also subclasses a built-in (``ValueError`` or ``KeyError``)
+so callers that do not know this package still catch it, and every error
+carries the fields that explain it (row, column, value, allowed range), so the
+command line and the dashboard can show *where* the problem is.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+
+class SolutionsError(Exception):
+    """Base class of every error this package raises on purpose."""
+
+
+class OutOfRangeError(SolutionsError, ValueError):
+    """A value lies outside the range a function or model is defined on.
+
+    Parameters
+    ----------
+    quantity : what was out of range, in words (e.g. ``"temperature"``)
+    value : the offending value, in the unit named by ``unit``
+    low, high : the allowed range (``None`` for an open end)
+    unit : unit of ``value``, ``low`` and ``high`` as text (e.g. ``"K"``)
+    """
+
+    def __init__(self, quantity: str, value: float, low: float | None,
+                 high: float | None, unit: str = "", detail: str = ""):
+        self.quantity, self.value, self.low, self.high, self.unit = (
+            quantity, value, low, high, unit)
+        lo = "-inf" if low is None else f"{low:g}"
+        hi = "+inf" if high is None else f"{high:g}"
+        u = f" {unit}" if unit else ""
+        msg = f"{quantity} {value:g}{u} is outside the range [{lo}, {hi}]{u}"
+        if detail:
+            msg += f": {detail}"
+        super().__init__(msg)
+
+
+class UnitParseError(SolutionsError, ValueError):
+    """An amount or unit string could not be understood."""
+
+    def __init__(self, text: str, reason: str):
+        self.text, self.reason = text, reason
+        super().__init__(f"cannot read unit {text!r}: {reason}")
+
+
+class IngredientError(SolutionsError, KeyError):
+    """An ingredient is unknown or its library entry is incomplete or invalid."""
+
+    def __init__(self, name: str, reason: str, suggestions: tuple[str, ...] = ()):
+        self.name, self.reason, self.suggestions = name, reason, tuple(suggestions)
+        msg = f"ingredient {name!r}: {reason}"
+        if suggestions:
+            msg += " (did you mean: " + ", ".join(suggestions) + "?)"
+        super().__init__(msg)
+
+    def __str__(self) -> str:  # KeyError would otherwise repr() the message
+        return self.args[0]
+
+
+class RecipeError(SolutionsError, ValueError):
+    """A recipe cannot be resolved; names the row (1-based, as a spreadsheet shows it)."""
+
+    def __init__(self, reason: str, row: int | None = None, column: str | None = None,
+                 ingredient: str | None = None):
+        self.reason, self.row, self.column, self.ingredient = reason, row, column, ingredient
+        where = []
+        if row is not None:
+            where.append(f"row {row}")
+        if ingredient:
+            where.append(repr(ingredient))
+        if column:
+            where.append(f"column {column!r}")
+        prefix = (", ".join(where) + ": ") if where else ""
+        super().__init__(prefix + reason)
+
+
+class TargetError(SolutionsError, ValueError):
+    """A design target cannot be reached; carries the nearest reachable value."""
+
+    def __init__(self, reason: str, nearest: float | None = None, unit: str = ""):
+        self.reason, self.nearest, self.unit = reason, nearest, unit
+        msg = reason
+        if nearest is not None:
+            msg += f" (nearest reachable: {nearest:.6g}{(' ' + unit) if unit else ''})"
+        super().__init__(msg)
+
+
+@dataclass(frozen=True)
+class Caveat:
+    """A warning that travels with a result: what, about which component, why.
+
+    ``kind`` is a short machine-readable tag (``"model-range"``, ``"solubility"``,
+    ``"eutectic"``, ``"ideal-fallback"``, ``"ice"``, ``"safety"`` ...).
+    """
+
+    kind: str
+    message: str
+    component: str | None = None
+    extra: dict = field(default_factory=dict, compare=False, hash=False)
+
+    def __str__(self) -> str:
+        return self.message

@@ -1,0 +1,554 @@
+"""Recipes: read the table a chemist writes, and resolve it into a :class:`Composition`.
+
+A recipe is a table with columns ``ingredient, amount, unit`` and optional columns
+``formula``, ``molar_mass`` (g/mol), ``density`` (g/mL, pure liquid), ``ions``,
+``hydrate_water`` and ``assay_%`` (purity of what is weighed). Rows may mix bases freely:
+grams, millilitres of a liquid, moles, % w/w, % w/v, % v/v, ppm, mg/mL, g/L, M, mM and
+mol/kg; the solvent row may read ``q.s.`` (to a volume or mass in its unit column) or
+``balance`` (to 100 % w/w).
+
+Resolution: for a fixed solution density every row's weighed mass is linear in the total
+mass, the solvent mass and the added-solvent mass, so the recipe is a 3×3 linear system;
+the density depends on the composition, so the system is re-solved with the density of
+its own result until the density no longer changes (a fixed point, converging in a few
+iterations because density depends weakly on it). Volumes in the recipe (q.s. to 1000 mL,
+% w/v, molarity, mL of a liquid) are taken at the preparation temperature, 20 °C unless
+stated, as volumetric glassware is calibrated.
+"""
+from __future__ import annotations
+
+import io
+import math
+import re
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+from typing import Iterable
+
+import numpy as np
+import pandas as pd
+
+from .composition import Composition
+from .density import solution_density
+from .errors import Caveat, IngredientError, RecipeError, SolutionsError, UnitParseError
+from .ingredients import Ingredient, Library, default_library, ingredient_from_record
+from .units import Amount, Basis, is_solvent_rule, parse_unit
+from .water import water_density
+
+__all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP"]
+
+T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
+
+_COLUMN_ALIASES = {
+    "ingredient": ("ingredient", "name", "component", "material", "substance", "item"),
+    "amount": ("amount", "quantity", "qty", "value", "amt"),
+    "unit": ("unit", "units", "uom"),
+    "formula": ("formula",),
+    "molar_mass": ("molar_mass", "molar mass", "mw", "molar_mass_g_per_mol", "m (g/mol)",
+                   "molar mass (g/mol)", "mol_wt", "molecular weight"),
+    "density": ("density", "density_g_per_ml", "density (g/ml)", "rho"),
+    "ions": ("ions", "i", "van't hoff factor", "vant_hoff", "particles"),
+    "hydrate_water": ("hydrate_water", "hydrate", "water of crystallisation"),
+    "assay": ("assay_%", "assay", "assay %", "purity", "purity_%", "purity %", "assay (%)"),
+}
+
+
+@dataclass(frozen=True)
+class RecipeRow:
+    """One row of a recipe, parsed. ``row`` is 1-based over the ingredient rows."""
+
+    row: int
+    ingredient: Ingredient
+    amount: Amount
+    number: float | None           # the number typed (None for plain q.s./balance)
+    assay: float = 1.0             # purity of what is weighed [1]
+    text: str = ""                 # the ingredient name as typed
+
+    @property
+    def is_solvent_rule(self) -> bool:
+        return self.amount.basis.is_solvent_rule
+
+    @property
+    def value_si(self) -> float:
+        return (self.number if self.number is not None else 1.0) * self.amount.value_si
+
+    def unit_label(self) -> str:
+        return self.amount.text
+
+
+@dataclass(frozen=True)
+class Recipe:
+    rows: tuple[RecipeRow, ...]
+    name: str = ""
+
+    def __iter__(self):
+        return iter(self.rows)
+
+    def __len__(self):
+        return len(self.rows)
+
+
+# ------------------------------------------------------------------------------ reading
+def _find_columns(columns: Iterable[str]) -> dict[str, str]:
+    found = {}
+    for col in columns:
+        c = str(col).strip().lower()
+        for canon, aliases in _COLUMN_ALIASES.items():
+            if c in aliases and canon not in found:
+                found[canon] = col
+    return found
+
+
+def _read_text(text: str, decimal: str) -> pd.DataFrame:
+    sample = text.strip().splitlines()[0] if text.strip() else ""
+    sep = "\t" if "\t" in sample else (";" if sample.count(";") > sample.count(",") else ",")
+    if decimal == "," and sep == ",":
+        sep = ";"
+    return pd.read_csv(io.StringIO(text), sep=sep, dtype=str, keep_default_na=False,
+                       skipinitialspace=True, comment="#")
+
+
+def _table(source, decimal: str) -> pd.DataFrame:
+    if isinstance(source, pd.DataFrame):
+        return source.astype(object).where(source.notna(), "")
+    if isinstance(source, Path) or (isinstance(source, str) and "\n" not in source
+                                    and source.lower().endswith((".csv", ".tsv", ".txt",
+                                                                 ".xlsx", ".xls"))):
+        p = Path(source)
+        if not p.exists():
+            raise RecipeError(f"recipe file {str(p)!r} not found")
+        if p.suffix.lower() in (".xlsx", ".xls"):
+            return pd.read_excel(p, dtype=str).fillna("")
+        return _read_text(p.read_text(encoding="utf-8-sig"), decimal)
+    if isinstance(source, str):
+        return _read_text(source, decimal)
+    raise RecipeError(f"cannot read a recipe from a {type(source).__name__}")
+
+
+def _to_float(cell, *, row: int, column: str, name: str, decimal: str) -> float | None:
+    if cell is None:
+        return None
+    if isinstance(cell, (int, float, np.floating, np.integer)):
+        x = float(cell)
+        if math.isnan(x):
+            return None
+    else:
+        t = str(cell).strip().replace("\u2212", "-")
+        if not t or t.lower() == "nan":
+            return None
+        if decimal == ",":
+            t = t.replace(".", "").replace(",", ".") if "," in t else t
+        t = t.replace(" ", "")
+        try:
+            x = float(t)
+        except ValueError:
+            hint = " (a decimal comma? read the recipe with decimal ',')" if \
+                re.fullmatch(r"[-+]?[0-9]+,[0-9]+", t) and decimal != "," else ""
+            raise RecipeError(f"{cell!r} is not a number{hint}", row, column, name) from None
+    if not math.isfinite(x):
+        raise RecipeError(f"{cell!r} is not a finite number", row, column, name)
+    return x
+
+
+_QS_TO = re.compile(r"^\s*(q\.?\s*s\.?|qs)\s*(ad|to)?\s*(?P<num>[-+0-9.,eE]+)?\s*(?P<unit>.*)$",
+                    re.IGNORECASE)
+_NUM_UNIT = re.compile(r"^\s*(?P<num>[-+]?[0-9]*[.,]?[0-9]+(?:[eE][-+]?[0-9]+)?)\s*(?P<unit>.*)$")
+
+
+def read_recipe(source, library: Library | None = None, *, decimal: str = ".",
+                name: str = "") -> Recipe:
+    """Read a recipe from a CSV/TSV path or text, an XLSX path, or a DataFrame.
+
+    ``decimal=","`` reads decimal commas (``0,9``), as pasted from many spreadsheets.
+    Unknown ingredients, bad numbers and bad units raise :class:`RecipeError` naming the
+    row, column and value. Inline columns (formula, molar_mass, density, ions) define or
+    override an ingredient for this recipe only.
+    """
+    lib = library or default_library()
+    df = _table(source, decimal)
+    cols = _find_columns(df.columns)
+    for need in ("ingredient", "amount"):
+        if need not in cols:
+            raise RecipeError(f"the recipe has no {need!r} column (columns found: "
+                              f"{', '.join(map(str, df.columns)) or 'none'}); expected "
+                              "ingredient, amount, unit")
+    rows = []
+    for i, rec in enumerate(df.to_dict("records"), start=1):
+        text = str(rec.get(cols["ingredient"], "") or "").strip()
+        amount_cell = rec.get(cols["amount"], "")
+        unit_cell = str(rec.get(cols.get("unit", ""), "") or "").strip() if "unit" in cols else ""
+        if not text and str(amount_cell).strip() == "" and not unit_cell:
+            continue  # blank line
+        if not text:
+            raise RecipeError("the ingredient name is empty", i, "ingredient")
+        rows.append(_parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal))
+    if not rows:
+        raise RecipeError("the recipe has no ingredient rows")
+    recipe = Recipe(tuple(rows), name)
+    _check_rows(recipe)
+    return recipe
+
+
+def _parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal) -> RecipeRow:
+    inline = {k: rec.get(cols[k], "") for k in ("formula", "molar_mass", "density", "ions",
+                                                 "hydrate_water") if k in cols}
+    inline = {k: v for k, v in inline.items() if str(v).strip() not in ("", "nan", "None")}
+    try:
+        ing = _ingredient(text, inline, lib)
+    except IngredientError as exc:
+        raise RecipeError(str(exc), i, "ingredient", text) from None
+    raw = "" if amount_cell is None else str(amount_cell).strip()
+    solvent_rule = is_solvent_rule(raw)
+    number: float | None
+    unit_text = unit_cell
+    if solvent_rule:
+        m = _QS_TO.match(raw)
+        num = m.group("num") if m else None
+        if m and m.group("unit") and not unit_text:
+            unit_text = m.group("unit").strip()
+        number = (_to_float(num, row=i, column="amount", name=text, decimal=decimal)
+                  if num else None)
+        if raw.lower().replace(" ", "").startswith(("bal", "rest", "remainder")):
+            number, unit_text = None, ""
+    else:
+        if not raw:
+            raise RecipeError("the amount is empty", i, "amount", text)
+        m = _NUM_UNIT.match(raw) if isinstance(amount_cell, str) else None
+        if m and m.group("unit").strip() and not unit_cell:
+            number = _to_float(m.group("num"), row=i, column="amount", name=text, decimal=decimal)
+            unit_text = m.group("unit").strip()
+        else:
+            number = _to_float(amount_cell, row=i, column="amount", name=text, decimal=decimal)
+    try:
+        amount = parse_unit(unit_text, solvent_rule=solvent_rule)
+    except UnitParseError as exc:
+        raise RecipeError(f"unit {unit_text!r}: {exc.reason}", i, "unit", text) from None
+    if amount.basis is Basis.BALANCE:
+        number = None
+    if amount.basis in (Basis.QS_VOLUME, Basis.QS_MASS) and number is None:
+        raise RecipeError(f"q.s. needs the final amount, e.g. 'q.s. to 1000' with unit "
+                          f"{unit_text or 'mL'!r}", i, "amount", text)
+    if number is not None and number <= 0:
+        raise RecipeError(f"amount must be positive, got {number:g}", i, "amount", text)
+    assay = 1.0
+    if "assay" in cols:
+        a = _to_float(rec.get(cols["assay"], ""), row=i, column=cols["assay"], name=text,
+                      decimal=decimal)
+        if a is not None:
+            if not (0 < a <= 100):
+                raise RecipeError(f"assay must be in (0, 100] %, got {a:g}", i, cols["assay"], text)
+            assay = a / 100.0
+    if amount.basis in (Basis.VOLUME, Basis.VOLUME_FRACTION) and not ing.rho_pure \
+            and not ing.is_water:
+        raise RecipeError(f"a volume of {ing.name} needs its density: it is not a liquid in "
+                          "the library; give a 'density' column (g/mL) or weigh it", i, "unit", text)
+    return RecipeRow(i, ing, amount, number, assay, text)
+
+
+def _ingredient(text: str, inline: dict, lib: Library) -> Ingredient:
+    if not inline:
+        return lib.get(text)
+    rec = {"name": text}
+    base = None
+    if text in lib:
+        base = lib.get(text)
+        rec.update({"formula": base.formula, "molar_mass_g_per_mol": base.M * 1e3,
+                    "density_g_per_mL": (base.rho_pure / 1e3) if base.rho_pure else "",
+                    "ions": base.ions, "hydrate_water": base.hydrate_water,
+                    "solute": base.solute, "kind": base.kind, "key": base.key,
+                    "source": base.source, "caution": base.caution})
+    if "formula" in inline:
+        rec["formula"] = inline["formula"]
+        rec.pop("molar_mass_g_per_mol", None)
+    if "molar_mass" in inline:
+        rec["molar_mass_g_per_mol"] = inline["molar_mass"]
+    if "density" in inline:
+        rec["density_g_per_mL"] = inline["density"]
+    if "ions" in inline:
+        rec["ions"] = inline["ions"]
+        if base is None or float(inline["ions"]) != base.ions:
+            rec.pop("kind", None)
+    if "hydrate_water" in inline:
+        rec["hydrate_water"] = inline["hydrate_water"]
+    ing = ingredient_from_record(rec, custom=True, where=text)
+    return ing if base is None else replace(ing, custom=(ing != base))
+
+
+def _check_rows(recipe: Recipe) -> None:
+    rules = [r for r in recipe.rows if r.is_solvent_rule]
+    if len(rules) > 1:
+        raise RecipeError(f"two q.s./balance rows (rows {rules[0].row} and {rules[1].row}); "
+                          "only the solvent can be made up to volume", rules[1].row, "amount",
+                          rules[1].text)
+    frac = [r for r in recipe.rows if r.amount.basis is Basis.MASS_FRACTION]
+    total = sum(r.value_si for r in frac)
+    if total > 1.0 + 1e-12:
+        raise RecipeError(f"the % w/w and ppm rows add up to {total * 100:.6g} %, over 100 %",
+                          frac[-1].row, "amount", frac[-1].text)
+    vfrac = [r for r in recipe.rows if r.amount.basis is Basis.VOLUME_FRACTION]
+    if sum(r.value_si for r in vfrac) > 1.0 + 1e-12:
+        raise RecipeError("the % v/v rows add up to over 100 %", vfrac[-1].row, "amount",
+                          vfrac[-1].text)
+
+
+# ---------------------------------------------------------------------------- resolving
+@dataclass(frozen=True)
+class ResolvedRecipe:
+    """A recipe resolved for one batch: the masses to weigh and the composition."""
+
+    recipe: Recipe
+    composition: Composition          # N = 1
+    solvent_row: RecipeRow | None
+    weighed_kg: np.ndarray            # per non-solvent row, as weighed (assay applied) [kg]
+    pure_kg: np.ndarray               # per non-solvent row, pure weighed form [kg]
+    water_added_kg: float             # solvent added (q.s./balance/stated) [kg]
+    rho_prep: float                   # solution density at T_prep [kg/m³]
+    T_prep: float                     # [K]
+    iterations: int
+    caveats: tuple[Caveat, ...] = field(default=())
+
+    @property
+    def solute_rows(self) -> tuple[RecipeRow, ...]:
+        return tuple(r for r in self.recipe.rows if r is not self.solvent_row)
+
+    @property
+    def volume_prep(self) -> float:
+        """Solution volume at the preparation temperature [m³]."""
+        return float(self.composition.m_total[0] / self.rho_prep)
+
+    @property
+    def m_total(self) -> float:
+        return float(self.composition.m_total[0])
+
+
+def _solvent_of(recipe: Recipe, lib: Library) -> tuple[RecipeRow | None, Ingredient]:
+    rules = [r for r in recipe.rows if r.is_solvent_rule]
+    if rules:
+        return rules[0], rules[0].ingredient
+    waters = [r for r in recipe.rows if r.ingredient.is_water]
+    if waters:
+        if len(waters) > 1:
+            raise RecipeError("water appears in two rows; combine them", waters[1].row,
+                              "ingredient", waters[1].text)
+        return waters[0], waters[0].ingredient
+    return None, lib.get("water")
+
+
+def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
+            T_prep: float = T_PREP, rho_measured: float | None = None,
+            library: Library | None = None, tol: float = 1e-13,
+            max_iter: int = 200) -> ResolvedRecipe:
+    """Resolve ``recipe`` into masses and a :class:`Composition`.
+
+    batch : ``("mass", kg)`` or ``("volume", m³)`` to scale the result to; without it the
+        batch is what the recipe states (its q.s. target, or what its amounts add up to;
+        1 kg when every row is relative).
+    T_prep : temperature at which the recipe's volumes are read [K].
+    rho_measured : a measured solution density at T_prep [kg/m³]; replaces the model.
+    """
+    lib = library or default_library()
+    solvent_row, solvent = _solvent_of(recipe, lib)
+    rows = [r for r in recipe.rows if r is not solvent_row]
+    for r in rows:
+        if r.ingredient.key == solvent.key:
+            raise RecipeError(f"{solvent.name} is the solvent (row {solvent_row.row}) and "
+                              "cannot also be a solute row; combine the rows", r.row,
+                              "ingredient", r.text)
+    M = np.array([r.ingredient.M for r in rows])
+    h = np.array([r.ingredient.hydrate_mass_fraction for r in rows])
+    rho_w = float(water_density(T_prep)) if solvent.is_water else (solvent.rho_pure or 1000.0)
+
+    has_absolute = any(r.amount.basis in (Basis.MASS, Basis.AMOUNT, Basis.VOLUME) for r in rows)
+    sb = solvent_row.amount.basis if solvent_row is not None else None
+    if sb in (Basis.MASS, Basis.VOLUME, Basis.AMOUNT, Basis.QS_MASS, Basis.QS_VOLUME):
+        has_absolute = True
+    if sb is Basis.BALANCE and has_absolute and batch is None:
+        absolute = next(r for r in rows if r.amount.basis in (Basis.MASS, Basis.AMOUNT,
+                                                             Basis.VOLUME))
+        raise RecipeError("balance fills to 100 % w/w, but row "
+                          f"{absolute.row} ({absolute.text!r}) is an absolute amount, so the "
+                          "batch is undefined; give a batch size or make the solvent "
+                          "'q.s. to' a mass or volume", solvent_row.row, "amount", solvent_row.text)
+    if sb is Basis.BALANCE and batch is None:
+        batch_mass = 1.0
+    elif sb is Basis.BALANCE and batch is not None:
+        batch_mass = batch[1] if batch[0] == "mass" else None
+    else:
+        batch_mass = None
+
+    rho = rho_measured if rho_measured is not None else rho_w
+    caveats: tuple[Caveat, ...] = ()
+    x = None
+    for it in range(1, max_iter + 1):
+        x = _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute,
+                          batch_mass, batch)
+        comp = _composition(rows, solvent, M, h, x)
+        if rho_measured is not None:
+            break
+        dres = solution_density(comp, T_prep)
+        new = float(dres.rho[0])
+        caveats = dres.caveats
+        if abs(new - rho) <= tol * new:
+            rho = new
+            break
+        rho = new
+    else:
+        raise RecipeError("the density of this recipe did not settle; check the amounts")
+    m_tot, m_w, m_wa, weighed = x
+    _check_result(rows, solvent_row, solvent, m_tot, m_wa, rho, M, h, weighed)
+    res = ResolvedRecipe(recipe, comp, solvent_row, weighed / np.array([r.assay for r in rows])
+                         if rows else weighed, weighed, float(m_wa), float(rho), T_prep, it,
+                         caveats)
+    if batch is not None and sb is not Basis.BALANCE:
+        res = _scale_to(res, batch)
+    elif batch is not None and batch[0] == "volume":
+        res = _scale_to(res, batch)
+    return res
+
+
+def _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute, batch_mass, batch):
+    """Solve for (m_tot, m_w, m_wa) at fixed density; returns them and weighed masses."""
+    k = len(rows)
+    a = np.zeros(k)   # absolute weighed mass [kg]
+    p = np.zeros(k)   # per kg of total solution
+    q = np.zeros(k)   # per kg of solvent (water)
+    for j, r in enumerate(rows):
+        v, b = r.value_si, r.amount.basis
+        ing = r.ingredient
+        if b is Basis.MASS:
+            a[j] = v
+        elif b is Basis.AMOUNT:
+            a[j] = v * ing.M
+        elif b is Basis.VOLUME:
+            a[j] = v * ing.rho_pure
+        elif b is Basis.MASS_FRACTION:
+            p[j] = v
+        elif b is Basis.MASS_PER_VOLUME:
+            p[j] = v / rho
+        elif b is Basis.MOLARITY:
+            p[j] = v * ing.M / rho
+        elif b is Basis.VOLUME_FRACTION:
+            p[j] = v * ing.rho_pure / rho
+        elif b is Basis.MOLALITY:
+            q[j] = v * ing.M
+        else:  # pragma: no cover - solvent rules are filtered out before
+            raise RecipeError(f"{b.value} is only for the solvent row", r.row, "amount", r.text)
+    # unknowns X = [m_tot, m_w, m_wa]
+    A = np.zeros((3, 3))
+    B = np.zeros(3)
+    # total mass: m_tot = m_wa + Σ(a + p m_tot + q m_w)
+    A[0] = [1.0 - p.sum(), -q.sum(), -1.0]
+    B[0] = a.sum()
+    # water: m_w = m_wa + Σ h (a + p m_tot + q m_w)
+    A[1] = [-(h * p).sum(), 1.0 - (h * q).sum(), -1.0]
+    B[1] = (h * a).sum()
+    # the solvent row's own rule
+    sb = solvent_row.amount.basis if solvent_row is not None else None
+    sv = solvent_row.value_si if solvent_row is not None else 0.0
+    if solvent_row is None:
+        A[2], B[2] = [0.0, 0.0, 1.0], 0.0
+    elif sb is Basis.QS_VOLUME:
+        A[2], B[2] = [1.0, 0.0, 0.0], rho * sv
+    elif sb is Basis.QS_MASS:
+        A[2], B[2] = [1.0, 0.0, 0.0], sv
+    elif sb is Basis.BALANCE:
+        if batch_mass is not None:
+            A[2], B[2] = [1.0, 0.0, 0.0], batch_mass
+        else:  # balance to a volume batch: fix total volume
+            A[2], B[2] = [1.0, 0.0, 0.0], rho * batch[1]
+    elif sb is Basis.MASS:
+        A[2], B[2] = [0.0, 0.0, 1.0], sv
+    elif sb is Basis.VOLUME:
+        A[2], B[2] = [0.0, 0.0, 1.0], sv * rho_w
+    elif sb is Basis.AMOUNT:
+        A[2], B[2] = [0.0, 0.0, 1.0], sv * solvent.M
+    elif sb is Basis.MASS_FRACTION:
+        A[2], B[2] = [-sv, 0.0, 1.0], 0.0
+    elif sb is Basis.MASS_PER_VOLUME:
+        A[2], B[2] = [-sv / rho, 0.0, 1.0], 0.0
+    elif sb is Basis.VOLUME_FRACTION:
+        A[2], B[2] = [-sv * rho_w / rho, 0.0, 1.0], 0.0
+    elif sb is Basis.MOLARITY:
+        A[2], B[2] = [-sv * solvent.M / rho, 0.0, 1.0], 0.0
+    else:
+        raise RecipeError(f"the solvent cannot be given as {sb.value}", solvent_row.row,
+                          "unit", solvent_row.text)
+    if not has_absolute:
+        # every row is relative: the scale is free. Fix 1 kg and check the dropped rule.
+        rule = A[2].copy()
+        A[2], B[2] = [1.0, 0.0, 0.0], 1.0
+        X = np.linalg.solve(A, B)
+        if solvent_row is not None and sb is not Basis.BALANCE and abs(rule @ X) > 1e-9:
+            total = (1.0 - X[2] / X[0]) * 100.0
+            raise RecipeError(f"the rows are all relative and do not add up: the solutes make "
+                              f"{total:.6g} % w/w and the solvent row asks for "
+                              f"{solvent_row.number:g} {solvent_row.unit_label()}; write the "
+                              "solvent as 'balance' or give absolute amounts",
+                              solvent_row.row, "amount", solvent_row.text)
+    else:
+        try:
+            X = np.linalg.solve(A, B)
+        except np.linalg.LinAlgError:
+            raise RecipeError("the recipe does not fix the amounts (the rows are not "
+                              "independent); give one absolute amount or a q.s. row") from None
+    m_tot, m_w, m_wa = X
+    weighed = a + p * m_tot + q * m_w
+    return m_tot, m_w, m_wa, weighed
+
+
+def _composition(rows, solvent, M, h, x) -> Composition:
+    m_tot, m_w, m_wa, weighed = x
+    n = weighed / M if len(rows) else np.zeros(0)
+    return Composition(tuple(r.ingredient for r in rows), n.reshape(1, -1),
+                       np.array([m_w]), solvent, tuple(r.text for r in rows))
+
+
+def _check_result(rows, solvent_row, solvent, m_tot, m_wa, rho, M, h, weighed):
+    if m_wa < -1e-12 * max(m_tot, 1e-30):
+        if solvent_row is not None and solvent_row.amount.basis is Basis.QS_VOLUME:
+            need = (m_tot - m_wa) / rho
+            raise RecipeError(
+                f"q.s. to {solvent_row.number:g} {solvent_row.unit_label()} is too little: the "
+                f"other ingredients alone need about {need * 1e6:.4g} mL of solution",
+                solvent_row.row, "amount", solvent_row.text)
+        if solvent_row is not None and solvent_row.amount.basis is Basis.QS_MASS:
+            raise RecipeError(
+                f"q.s. to {solvent_row.number:g} {solvent_row.unit_label()} is too little: the "
+                f"other ingredients alone weigh {(m_tot - m_wa) * 1e3:.5g} g",
+                solvent_row.row, "amount", solvent_row.text)
+        raise RecipeError("the solutes take more than 100 % of the solution; lower the "
+                          "amounts", solvent_row.row if solvent_row else None, "amount",
+                          solvent_row.text if solvent_row else None)
+    if m_tot <= 0 or not np.isfinite(m_tot):
+        raise RecipeError("the recipe resolves to no solution; check the amounts")
+    if solvent_row is None and not any(r.ingredient.hydrate_water for r in rows):
+        raise RecipeError("the recipe has no solvent: add water (an amount, 'q.s. to' a "
+                          "volume, or 'balance')")
+    if np.any(weighed < 0):
+        j = int(np.argmin(weighed))
+        raise RecipeError("resolves to a negative amount", rows[j].row, "amount", rows[j].text)
+
+
+def _scale_to(res: ResolvedRecipe, batch: tuple[str, float]) -> ResolvedRecipe:
+    kind, value = batch
+    if not (value > 0 and math.isfinite(value)):
+        raise RecipeError(f"batch size must be positive, got {value:g}")
+    f = value / (res.m_total if kind == "mass" else res.volume_prep)
+    return replace(res, composition=res.composition.scaled(f), weighed_kg=res.weighed_kg * f,
+                   pure_kg=res.pure_kg * f, water_added_kg=res.water_added_kg * f)
+
+
+def parse_batch(text: str) -> tuple[str, float]:
+    """Parse a batch size such as ``"5 L"`` or ``"20 kg"`` into (``"mass"|"volume"``, SI)."""
+    m = _NUM_UNIT.match(str(text))
+    if not m or not m.group("unit").strip():
+        raise RecipeError(f"batch {text!r}: write a number and a unit, e.g. '5 L' or '20 kg'")
+    amount = parse_unit(m.group("unit"))
+    v = float(m.group("num").replace(",", ".")) * amount.value_si
+    if amount.basis is Basis.MASS:
+        return "mass", v
+    if amount.basis is Basis.VOLUME:
+        return "volume", v
+    raise RecipeError(f"batch {text!r}: the unit must be a mass or a volume")
+
+
+__all__ += ["parse_batch", "SolutionsError"]

@@ -1,0 +1,88 @@
+"""Fit apparent specific volumes of solutes that have no published density coefficients.
+
+Reads the CRC Handbook 20 °C tables in solutions/data/tables/, fits for each solute the
+apparent specific volume of the solute,
+
+    v_app(w) = (1/rho - (1 - w)/rho_w) / w  =  a0 + a1 w + a2 w^2 + a3 w^3   [m³/kg]
+
+(w = solute mass fraction, rho_w = water density at 20 °C from IAPWS-IF97), by linear
+least squares weighted to minimise the error in density, and appends the rows to
+solutions/data/density_apparent.csv with form ``vapp_poly``. Run from the project root:
+
+    python tools/fit_density.py
+
+The fit is reproducible; tests/test_density.py checks the result against the same tables.
+"""
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+
+from solutions.water import water_density  # noqa: E402
+
+TABLES = ROOT / "solutions" / "data" / "tables"
+OUT = ROOT / "solutions" / "data" / "density_apparent.csv"
+
+# CRC solute name -> our solute key, molar mass of the dissolved basis override (g/mol)
+FITS = {
+    "Glycerol": "glycerol",
+    "1,2-Ethanediol": "ethylene glycol",
+    "D-Glucose": "glucose",
+    "D-Fructose": "fructose",
+    "D-Mannitol": "mannitol",
+    "D-Lactose": "lactose",
+    "Maltose": "maltose",
+    "Urea": "urea",
+    "Tris(hydroxymethyl)methylamine": "tromethamine",
+    "Citric acid": "citric acid",
+    "Methanol": "methanol",
+    "2-Propanol": "2-propanol",
+    "Acetone": "acetone",
+    "D-Lactic acid": "lactic acid",
+    # the table's mass % for this salt is of the anhydrous salt (its molality column says so)
+    "Sodium citrate dihydrate": "trisodium citrate",
+}
+DEGREE = 3
+SOURCE = ("fitted by tools/fit_density.py (cubic apparent specific volume) to CRC Handbook "
+          "102nd ed. (2021) Concentrative Properties of Aqueous Solutions, 20 °C")
+
+
+def fit_one(w: np.ndarray, rho: np.ndarray, rho_w: float, degree: int = DEGREE):
+    v_app = (1.0 / rho - (1.0 - w) / rho_w) / w
+    # density error δρ ≈ ρ² w δv: weight rows by ρ² w so the fit minimises density error
+    wt = rho ** 2 * w
+    A = np.vander(w, degree + 1, increasing=True) * wt[:, None]
+    coef, *_ = np.linalg.lstsq(A, v_app * wt, rcond=None)
+    pred = 1.0 / ((1.0 - w) / rho_w + w * (np.vander(w, degree + 1, increasing=True) @ coef))
+    return coef, np.max(np.abs(pred / rho - 1.0))
+
+
+def main() -> None:
+    tab = pd.concat([pd.read_csv(p) for p in sorted(TABLES.glob("crc_aqueous_20C_*.csv"))])
+    rho_w = float(water_density(293.15))
+    rows = []
+    for crc, key in FITS.items():
+        d = tab[(tab.solute == crc) & (tab.mass_pct > 0)]
+        if d.empty:
+            print(f"skip {crc}: not in tables")
+            continue
+        w = d.mass_pct.to_numpy() / 100
+        rho = d.density_g_per_cm3.to_numpy() * 1e3
+        coef, err = fit_one(w, rho, rho_w)
+        print(f"{key:20s} n={len(w):3d} w<={w.max():.2f} max density error {err * 100:.3f} %")
+        rows.append(dict(solute=key, form="vapp_poly", c0=repr(float(coef[0])), c1=repr(float(coef[1])),
+                         c2=repr(float(coef[2])), c3=repr(float(coef[3])), c4="", T_min_C=15.0,
+                         T_max_C=25.0, w_max=round(float(w.max()), 4), source=SOURCE))
+    old = pd.read_csv(OUT)
+    old = old[old.form != "vapp_poly"]
+    pd.concat([old, pd.DataFrame(rows)]).to_csv(OUT, index=False)
+
+
+if __name__ == "__main__":
+    main()
