@@ -13,7 +13,9 @@ from solutions.water.iapws_if97 import (
 )
 
 #: Lower temperature limit of the supercooled branch [K]: -34 degC, the lowest
-#: temperature of the measurements the Hare & Sorensen (1987) fit represents.
+#: temperature of the measurements the Hare & Sorensen (1987) fit represents
+#: (the fit's coefficients were read from third-party copies; the original
+#: paper was not seen). It agrees with IAPWS G12-15 within 1e-4 down to it.
 SUPERCOOLED_T_MIN = 239.15
 #: The supercooled fit is a 0.101325 MPa correlation; it is accepted for
 #: P <= 0.2 MPa, where compression changes the density by < 5e-5 relative

@@ -52,7 +52,8 @@ SUPERCOOLED_T_MAX = 332.0
 #: Normal melting point of ice at 101.325 kPa [K] (common practice: 0 degC).
 T_MELT = 273.15
 #: Lower end of the thermodynamic route [K]: the validity limit of Murphy &
-#: Koop's enthalpy of vaporization of supercooled water, Eq. (9).
+#: Koop's enthalpy of vaporization of supercooled water, Eq. (9) (236 K as
+#: recalled from the paper, not re-read; the equation itself was checked).
 THERMO_T_MIN = 236.0
 THERMO_T_MAX = T_MELT
 # Gauss-Legendre nodes on [-1, 1]; the integrand is smooth over < 40 K, so 24

@@ -1,0 +1,1 @@
+"""Activity models for aqueous solutions (Pitzer equations for single salts)."""

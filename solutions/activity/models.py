@@ -1,0 +1,202 @@
+"""Solvent activity of a composition under each model, with the caveats that go with it.
+
+Three models share one interface, :func:`solvent_activity` ``(comp, T, model)`` →
+``(ln a, caveats)``, so colligative properties are computed the same way whatever the
+model:
+
+``dilute``
+    ln a = −M_s Σ ν_i b_i: the dilute limit of Raoult's law with ideal van't Hoff
+    factors. It is what ΔT = i K b assumes.
+``ideal``
+    ln a = ln x_s, Raoult's law on mole fractions, each solute counted as ν_i particles.
+``nonideal`` (default)
+    Each solute's own binary water activity at its molality in the mixture —
+    electrolytes from the Pitzer equations (:mod:`solutions.activity.pitzer`),
+    non-electrolytes from the extended Norrish equation
+    (:mod:`solutions.activity.nonelectrolytes`) — combined by the Ross (1975) equation,
+    a_w = Π_i a_w,i(b_i, T). A solute with no parameters enters by Raoult's law and is
+    named in a caveat. Several ingredients that dissolve to the same solute (a salt and
+    its hydrate) are summed first.
+
+Non-aqueous solvents have no non-ideal data here: ``nonideal`` falls back to ``ideal``
+with a caveat.
+
+References
+----------
+Ross, K. D. (1975) Food Technol. 29(3), 26–34 (the product rule for mixed solutes).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cache
+
+import numpy as np
+
+from ..composition import Composition
+from ..errors import Caveat, SolutionsError
+from . import nonelectrolytes
+
+__all__ = ["MODELS", "MODEL_NAMES", "ActivityTerms", "activity_terms", "solvent_activity",
+           "solute_groups", "describe_model", "check_model"]
+
+MODELS = ("nonideal", "ideal", "dilute")
+MODEL_NAMES = {
+    "nonideal": "non-ideal: Pitzer (electrolytes) + extended Norrish (non-electrolytes), "
+                "Ross mixing",
+    "ideal": "ideal solution: Raoult's law on mole fractions",
+    "dilute": "dilute ideal: textbook constants, ΔT = i·K·b",
+}
+
+
+def describe_model(model: str) -> str:
+    return MODEL_NAMES[_check_model(model)]
+
+
+def check_model(model: str) -> str:
+    """The canonical model name for ``model`` (``nonideal``, ``ideal`` or ``dilute``)."""
+    return _check_model(model)
+
+
+def _check_model(model: str) -> str:
+    m = str(model).strip().lower().replace("-", "").replace("_", "")
+    alias = {"nonideal": "nonideal", "default": "nonideal", "real": "nonideal",
+             "ideal": "ideal", "raoult": "ideal", "dilute": "dilute", "textbook": "dilute"}
+    if m not in alias:
+        raise SolutionsError(f"unknown model {model!r}; choose one of {', '.join(MODELS)}")
+    return alias[m]
+
+
+@cache
+def _pitzer_salts():
+    try:
+        from . import pitzer
+    except ImportError:  # pragma: no cover - the module is part of the package
+        return None, {}
+    return pitzer, pitzer.load_pitzer_salts()
+
+
+# ingredient solute keys that a parameter table may spell differently
+_PITZER_ALIASES = {
+    "trisodium citrate": ("Na3Citrate", "Na3Cit", "Na3C6H5O7", "trisodium citrate"),
+    "sodium acetate": ("NaOAc", "NaCH3COO", "NaC2H3O2", "sodium acetate"),
+    "potassium acetate": ("KOAc", "KCH3COO", "KC2H3O2", "potassium acetate"),
+    "potassium formate": ("KHCOO", "KHCO2", "KFormate", "potassium formate"),
+    "sodium formate": ("NaHCOO", "NaHCO2", "NaFormate", "sodium formate"),
+    "sodium lactate": ("NaLactate", "NaC3H5O3", "sodium lactate"),
+}
+
+
+def _pitzer_salt(key: str):
+    mod, salts = _pitzer_salts()
+    for k in (key, *_PITZER_ALIASES.get(key, ())):
+        if k in salts:
+            return mod, salts[k]
+    return mod, None
+
+
+def solute_groups(comp: Composition) -> dict[str, tuple[list[int], object]]:
+    """Columns of ``comp`` grouped by dissolved solute key, with the ingredient of the first."""
+    groups: dict[str, list[int]] = {}
+    for j, s in enumerate(comp.solutes):
+        groups.setdefault(s.solute, []).append(j)
+    return {k: (cols, comp.solutes[cols[0]]) for k, cols in groups.items()}
+
+
+@dataclass(frozen=True)
+class ActivityTerms:
+    """The solvent-activity model of one set of solutes, ready to evaluate on molalities.
+
+    Built once per recipe (or sweep) by :func:`activity_terms`; :meth:`ln_a` is then a
+    pure vectorized function of the group molalities and T, so root finders can call it
+    on 100 000 compositions at once.
+    """
+
+    model: str
+    labels: tuple[str, ...]          # ingredient names, one per solute group
+    columns: tuple[tuple[int, ...], ...]
+    kinds: tuple[str, ...]           # "pitzer", "norrish", "raoult" per group
+    params: tuple[object, ...]
+    ions: np.ndarray                 # ideal particles per formula unit, per group
+    M_solvent: float                 # [kg/mol]
+    notes: tuple[Caveat, ...] = ()   # caveats that do not depend on composition
+
+    def molalities(self, comp: Composition) -> list[np.ndarray]:
+        """Group molalities [mol/kg], one array of shape (N,) per group."""
+        b = comp.molality()
+        return [b[:, list(c)].sum(axis=1) for c in self.columns]
+
+    def ln_a(self, bs, T):
+        """ln a of the solvent [1] at group molalities ``bs`` [mol/kg] and ``T`` [K]."""
+        T = np.asarray(T, dtype=float)
+        if not bs:
+            return np.zeros(np.shape(T))
+        nu_b = sum(nu * b for nu, b in zip(self.ions, bs))
+        if self.model == "dilute":
+            return -self.M_solvent * nu_b + 0.0 * T
+        if self.model == "ideal":
+            return -np.log1p(self.M_solvent * nu_b) + 0.0 * T
+        out = 0.0 * T
+        for kind, par, nu, b in zip(self.kinds, self.params, self.ions, bs):
+            if kind == "pitzer":
+                out = out + par[0].ln_water_activity(par[1], b, T)
+            elif kind == "norrish":
+                out = out + nonelectrolytes.ln_water_activity(par, b)
+            else:
+                out = out - np.log1p(nu * b * self.M_solvent)
+        return out
+
+    def caveats(self, bs, T) -> list[Caveat]:
+        """Range warnings for these molalities at ``T`` [K], plus the fixed notes."""
+        out = list(self.notes)
+        if self.model != "nonideal":
+            return out
+        for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
+            if kind == "pitzer":
+                out.extend(par[0].validity(par[1], b, T))
+            elif kind == "norrish":
+                out.extend(nonelectrolytes.validity(label, par, b, T))
+        return out
+
+
+def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
+    """Choose, for each dissolved solute of ``comp``, the activity model and parameters."""
+    model = _check_model(model)
+    groups = solute_groups(comp)
+    notes: list[Caveat] = []
+    if model == "nonideal" and not comp.solvent.is_water:
+        notes.append(Caveat("ideal-fallback", f"no non-ideal activity data for solutions in "
+                            f"{comp.solvent.name}: Raoult's law used", comp.solvent.name))
+        model = "ideal"
+    norrish = nonelectrolytes.load_nonelectrolytes()
+    labels, columns, kinds, params, ions = [], [], [], [], []
+    for key, (cols, ing) in groups.items():
+        labels.append(ing.name)
+        columns.append(tuple(cols))
+        ions.append(ing.ions)
+        kind, par = "raoult", None
+        if model == "nonideal":
+            if ing.kind == "electrolyte":
+                mod, salt = _pitzer_salt(key)
+                if salt is not None:
+                    kind, par = "pitzer", (mod, salt)
+            elif key in norrish:
+                kind, par = "norrish", norrish[key]
+            if kind == "raoult":
+                notes.append(Caveat("ideal-fallback",
+                                    f"no activity parameters for {ing.name}: it enters as an "
+                                    f"ideal solute with {ing.ions:g} particle(s) per formula "
+                                    "unit", ing.name))
+        kinds.append(kind)
+        params.append(par)
+    return ActivityTerms(model, tuple(labels), tuple(columns), tuple(kinds), tuple(params),
+                         np.array(ions, dtype=float), comp.solvent.M, tuple(notes))
+
+
+def solvent_activity(comp: Composition, T, model: str = "nonideal"):
+    """ln of the solvent activity [1] for each composition, shape (N,), and caveats.
+
+    T : temperature [K], scalar or shape (N,).
+    """
+    terms = activity_terms(comp, model)
+    bs = terms.molalities(comp)
+    return terms.ln_a(bs, T), terms.caveats(bs, T)

@@ -1,0 +1,225 @@
+"""Command line: ``python -m solutions <command> …``.
+
+Commands
+--------
+evaluate RECIPE      every basis and property of a recipe (table, or ``--json``)
+target RECIPE        the amount of one ingredient that hits a property target
+scale RECIPE         weigh-out sheet for a batch
+dilute STOCK         how much stock and diluent make a target concentration
+ingredients          list the ingredient library
+
+Exit status: 0 success, 2 bad input (message on stderr), 3 target not reachable.
+Temperatures are °C and pressures kPa on the command line; the library is SI inside.
+"""
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import sys
+
+from .errors import SolutionsError, TargetError
+
+EXIT_INPUT, EXIT_UNREACHABLE = 2, 3
+
+
+def _clean(obj):
+    """JSON-safe copy: NaN/inf become None (and are never produced silently upstream)."""
+    if isinstance(obj, float):
+        return obj if math.isfinite(obj) else None
+    if isinstance(obj, dict):
+        return {k: _clean(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_clean(v) for v in obj]
+    if hasattr(obj, "item") and callable(obj.item):  # numpy scalar
+        return _clean(obj.item())
+    return obj
+
+
+def dumps(obj) -> str:
+    return json.dumps(_clean(obj), indent=2, ensure_ascii=False, allow_nan=False)
+
+
+def _common(p: argparse.ArgumentParser) -> None:
+    p.add_argument("recipe", help="recipe file (CSV, TSV or XLSX) with ingredient, amount, unit")
+    p.add_argument("--temperature", "-T", type=float, default=25.0,
+                   help="temperature of the solution, °C (default 25)")
+    p.add_argument("--pressure", "-P", type=float, default=101.325,
+                   help="external pressure, kPa (default 101.325)")
+    p.add_argument("--model", default="nonideal", choices=["nonideal", "ideal", "dilute"],
+                   help="activity model (default nonideal)")
+    p.add_argument("--density", type=float, default=None,
+                   help="measured solution density, g/mL (replaces the model)")
+    p.add_argument("--volume-temperature", type=float, default=20.0,
+                   help="temperature at which the recipe's volumes are read, °C (default 20)")
+    p.add_argument("--library", default=None, help="your own ingredient library CSV")
+    p.add_argument("--decimal-comma", action="store_true",
+                   help="the recipe writes decimals with a comma (0,9)")
+    p.add_argument("--json", action="store_true", help="print one JSON object")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    ap = argparse.ArgumentParser(prog="python -m solutions",
+                                 description="Formulation solution properties from a recipe.")
+    sub = ap.add_subparsers(dest="command", required=True)
+    ev = sub.add_parser("evaluate", help="every basis and property of a recipe")
+    _common(ev)
+    ev.add_argument("--batch", default=None, help="scale to a batch, e.g. '5 L' or '20 kg'")
+
+    tg = sub.add_parser("target", help="solve for the amount of one ingredient")
+    _common(tg)
+    tg.add_argument("--vary", required=True, help="the ingredient to adjust (as in the recipe)")
+    g = tg.add_mutually_exclusive_group(required=True)
+    g.add_argument("--freezing-point", type=float, help="target freezing point, °C")
+    g.add_argument("--freezing-point-depression", type=float, help="target depression, K")
+    g.add_argument("--osmolality", help="target osmolality, mOsm/kg, or 'isotonic'")
+    g.add_argument("--osmolarity", type=float, help="target calculated osmolarity, mOsm/L")
+    g.add_argument("--water-activity", type=float, help="target water activity (0–1)")
+    g.add_argument("--boiling-point", type=float, help="target boiling point at --pressure, °C")
+    g.add_argument("--vapor-pressure", type=float,
+                   help="target vapor pressure at --temperature, kPa")
+    g.add_argument("--target-density", "--density-target", dest="target_density", type=float,
+                   help="target solution density at --temperature, g/mL")
+    g.add_argument("--concentration", nargs=2, metavar=("INGREDIENT", "VALUE_UNIT"),
+                   help="target concentration of another ingredient, e.g. NaCl '0.9 %% w/v'")
+    tg.add_argument("--isotonic-mOsm", type=float, default=290.0,
+                    help="osmolality taken as isotonic, mOsm/kg (default 290)")
+
+    sc = sub.add_parser("scale", help="weigh-out sheet for a batch")
+    _common(sc)
+    sc.add_argument("--batch", required=True, help="batch size, e.g. '5 L' or '20 kg'")
+
+    dl = sub.add_parser("dilute", help="make a target concentration from a stock")
+    _common(dl)
+    dl.add_argument("--ingredient", required=True, help="the ingredient whose concentration is set")
+    dl.add_argument("--to", required=True, dest="to", help="target concentration, e.g. '0.9 %% w/v'")
+    dl.add_argument("--final", required=True, help="final amount, e.g. '500 mL' or '1 kg'")
+
+    ing = sub.add_parser("ingredients", help="list the ingredient library")
+    ing.add_argument("--library", default=None)
+    ing.add_argument("--json", action="store_true")
+    return ap
+
+
+def _load(args):
+    from .ingredients import default_library
+    from .recipe import read_recipe
+    lib = default_library()
+    if getattr(args, "library", None):
+        lib = lib.with_file(args.library)
+    recipe = read_recipe(args.recipe, lib, decimal="," if args.decimal_comma else ".",
+                         name=os.path.splitext(os.path.basename(args.recipe))[0])
+    return lib, recipe
+
+
+def _conditions(args) -> dict:
+    if not (-100.0 < args.temperature < 374.0):
+        raise SolutionsError(f"--temperature {args.temperature:g} °C is outside −100…374 °C")
+    if not (args.pressure > 0):
+        raise SolutionsError(f"--pressure must be positive (kPa), got {args.pressure:g}")
+    return dict(T=args.temperature + 273.15, P=args.pressure * 1e3, model=args.model,
+                rho_measured=None if args.density is None else args.density * 1e3,
+                T_prep=args.volume_temperature + 273.15)
+
+
+def cmd_evaluate(args) -> int:
+    from .evaluate import evaluate
+    from .recipe import parse_batch
+    _, recipe = _load(args)
+    batch = parse_batch(args.batch) if args.batch else None
+    ev = evaluate(recipe, batch=batch, **_conditions(args))
+    if args.json:
+        print(dumps(ev.to_dict()))
+    else:
+        from .report import text_report
+        print(text_report(ev.to_dict()))
+    return 0
+
+
+def cmd_target(args) -> int:
+    from .targeting import Target, solve_target
+    from .report import text_report
+    lib, recipe = _load(args)
+    cond = _conditions(args)
+    target = Target.from_cli(args)
+    result = solve_target(recipe, args.vary, target, library=lib, **cond)
+    out = result.to_dict()
+    if args.json:
+        print(dumps(out))
+    else:
+        print(result.summary_text())
+        print()
+        print(text_report(out))
+    return 0
+
+
+def cmd_scale(args) -> int:
+    from .batch import weigh_out
+    from .recipe import parse_batch
+    _, recipe = _load(args)
+    cond = _conditions(args)
+    sheet = weigh_out(recipe, parse_batch(args.batch), **cond)
+    if args.json:
+        print(dumps(sheet.to_dict()))
+    else:
+        print(sheet.text())
+    return 0
+
+
+def cmd_dilute(args) -> int:
+    from .batch import dilution_plan
+    lib, recipe = _load(args)
+    cond = _conditions(args)
+    plan = dilution_plan(recipe, args.ingredient, args.to, args.final, library=lib, **cond)
+    print(dumps(plan.to_dict()) if args.json else plan.text())
+    return 0
+
+
+def cmd_ingredients(args) -> int:
+    from .ingredients import default_library
+    lib = default_library()
+    if args.library:
+        lib = lib.with_file(args.library)
+    rows = [{"name": i.name, "key": i.key, "formula": i.formula,
+             "molar_mass_g_per_mol": round(i.M * 1e3, 4), "ions": i.ions,
+             "hydrate_water": i.hydrate_water,
+             "density_g_per_mL": None if i.rho_pure is None else i.rho_pure / 1e3,
+             "synonyms": list(i.synonyms)} for i in lib]
+    if args.json:
+        print(dumps(rows))
+    else:
+        w = max(len(r["name"]) for r in rows)
+        for r in rows:
+            print(f"{r['name']:<{w}}  {r['formula'] or '-':<18} {r['molar_mass_g_per_mol']:>9.3f} g/mol"
+                  f"  ions {r['ions']:g}")
+    return 0
+
+
+COMMANDS = {"evaluate": cmd_evaluate, "target": cmd_target, "scale": cmd_scale,
+            "dilute": cmd_dilute, "ingredients": cmd_ingredients}
+
+
+def main(argv=None) -> int:
+    args = build_parser().parse_args(argv)
+    try:
+        return COMMANDS[args.command](args)
+    except TargetError as exc:
+        print(f"error: target not reachable: {exc}", file=sys.stderr)
+        return EXIT_UNREACHABLE
+    except SolutionsError as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return EXIT_INPUT
+    except (OSError, UnicodeDecodeError) as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return EXIT_INPUT
+    except Exception as exc:  # a bug: say so in one line, full trace only on request
+        if os.environ.get("SOLUTIONS_DEBUG"):
+            raise
+        print(f"error: internal error ({type(exc).__name__}: {exc}); rerun with "
+              "SOLUTIONS_DEBUG=1 for details and please report it", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())

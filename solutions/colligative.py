@@ -1,0 +1,340 @@
+"""Colligative properties of a composition: vapor pressure, freezing and boiling points,
+osmolality and osmotic pressure, under a chosen activity model.
+
+Everything follows from the solvent activity a (water activity a_w in water):
+
+* vapor pressure of the solvent over the solution  p = a(T) · p*(T)
+  (p* from IAPWS-IF97 for water, Antoine for other solvents); below the solution's
+  freezing point the stable phase is ice and the pressure over ice is reported;
+* freezing point: the T where the solution's a_w equals that of ice,
+  a_w(T) = p_ice(T) / p_liq(T) (IAPWS R14-08 sublimation over Murphy–Koop supercooled
+  liquid; Koop et al. 2000). The ideal model uses the enthalpy-of-fusion relation of
+  :func:`solutions.water.ice_water_activity_thermo`, the dilute model ΔT = K_f Σ ν b;
+* boiling point at external pressure P: the T where a(T) · p*(T) = P (non-volatile
+  solutes); the dilute model uses ΔT = K_b Σ ν b;
+* osmolality −ln a_w / M_w, osmotic coefficient φ = osmolality / Σ ν b, osmotic
+  pressure Π = −R T ln a_w / V_w with V_w = M_w / ρ_w(T), and the calculated
+  osmolarity Σ ν c (the ideal count printed on labels).
+
+Depressions and elevations are temperature differences [K]. On the ice-activity scale
+pure water and ice coexist at the triple point (273.16 K); the freezing point at
+101.325 kPa is reported as 273.15 K − ΔT_f, which removes the 0.01 K offset of the
+pressure (common practice for solution freezing points).
+
+All root finding is vectorized (``scipy.optimize.elementwise.find_root``), so a sweep of
+many compositions is one call.
+"""
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.optimize import elementwise
+
+from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
+from .composition import Composition
+from .errors import Caveat, OutOfRangeError, SolutionsError
+from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
+                    saturation_temperature, sublimation_pressure,
+                    supercooled_vapor_pressure, water_density)
+
+__all__ = ["ColligativeResult", "colligative", "freezing_point", "boiling_point",
+           "vapor_pressure_pure", "R", "T_MELT", "T_TRIPLE", "P_ATM"]
+
+R = 8.314462618  # J/(mol K), CODATA 2018 (exact: N_A k)
+T_MELT = 273.15       # K, ice point at 101.325 kPa
+T_TRIPLE = 273.16     # K, where a_ice = 1 on the sublimation/liquid ratio scale
+P_ATM = 101325.0      # Pa
+T_FREEZE_MIN = 190.0  # K, lowest freezing point searched (below every solution here)
+T_ICE_THERMO_MIN = 236.0  # K, lowest T of the enthalpy-of-fusion ice relation
+
+
+@dataclass
+class ColligativeResult:
+    """Colligative properties of N compositions (arrays of shape (N,)); ``None`` entries
+    in the arrays are never used: where a value could not be found it is NaN *and* a
+    caveat says why, and :meth:`value` turns it into ``None`` for output."""
+
+    model: str
+    model_name: str
+    T: np.ndarray                       # [K]
+    P: np.ndarray                       # [Pa]
+    water_activity: np.ndarray          # [1] (solvent activity for other solvents)
+    vapor_pressure: np.ndarray          # [Pa] over the stable phase at T
+    vapor_pressure_liquid: np.ndarray   # [Pa] over the (possibly supercooled) solution
+    vapor_pressure_pure: np.ndarray     # [Pa] pure solvent at T
+    freezing_point: np.ndarray          # [K] at 101.325 kPa
+    freezing_point_depression: np.ndarray   # [K]
+    boiling_point: np.ndarray           # [K] at P
+    boiling_point_elevation: np.ndarray     # [K]
+    osmolality: np.ndarray              # [mol/kg] (osmol/kg)
+    osmotic_coefficient: np.ndarray     # [1]
+    osmotic_pressure: np.ndarray        # [Pa]
+    osmolarity: np.ndarray | None       # [mol/m³] calculated, ideal count; needs rho
+    below_freezing: np.ndarray          # bool: T below the freezing point (ice is stable)
+    caveats: list[Caveat] = field(default_factory=list)
+
+    @property
+    def vapor_pressure_lowering(self) -> np.ndarray:
+        """p*(T) − p(T) over the liquid solution [Pa]."""
+        return self.vapor_pressure_pure - self.vapor_pressure_liquid
+
+
+# ------------------------------------------------------------------ solvent curves
+def _solvent_name(comp: Composition) -> str:
+    return comp.solvent.solute
+
+
+def _constants(comp: Composition):
+    from .solvents import solvent_constants
+    return solvent_constants(_solvent_name(comp))
+
+
+def vapor_pressure_pure(comp: Composition, T):
+    """Vapor pressure of the pure (liquid) solvent [Pa] at ``T`` [K], and caveats."""
+    T = np.asarray(T, dtype=float)
+    if comp.solvent.is_water:
+        out = np.where(T >= T_MELT, 0.0, 0.0)
+        hi = T >= T_MELT
+        if np.any(T > 647.096):
+            raise OutOfRangeError("temperature", float(np.max(T)), 123.0, 647.096, "K",
+                                  "liquid water does not exist above the critical point "
+                                  "(647.096 K, 22.064 MPa)")
+        if np.any(hi):
+            out = np.where(hi, saturation_pressure(np.where(hi, T, 300.0)), out)
+        if np.any(~hi):
+            out = np.where(~hi, supercooled_vapor_pressure(np.where(~hi, T, 260.0)), out)
+        return out, []
+    from .solvents import antoine_vapor_pressure
+    name = _solvent_name(comp)
+    try:
+        return np.asarray(antoine_vapor_pressure(T, name), dtype=float), []
+    except OutOfRangeError as exc:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            p = np.asarray(antoine_vapor_pressure(T, name, extrapolate=True), dtype=float)
+        return p, [Caveat("model-range", f"vapor pressure of {comp.solvent.name}: {exc}; "
+                          "extrapolated", comp.solvent.name)]
+
+
+# ------------------------------------------------------------------ freezing point
+def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTerms | None = None):
+    """Freezing point at 101.325 kPa [K] and depression [K], shape (N,), with caveats."""
+    model = check_model(model)
+    terms = terms or activity_terms(comp, model)
+    bs = terms.molalities(comp)
+    caveats: list[Caveat] = []
+    N = comp.N
+    if not comp.solvent.is_water:
+        return _freezing_nonaqueous(comp, terms, bs, model)
+    nu_b = comp.particle_molality()
+    if model == "dilute":
+        Kf = _constants(comp).Kf_K_kg_per_mol
+        dT = Kf * nu_b
+        return T_MELT - dT, dT, caveats
+    if model == "ideal":
+        def f(T, *b):
+            return terms.ln_a(list(b), T) - np.log(ice_water_activity_thermo(T))
+        lo, hi = T_ICE_THERMO_MIN, T_MELT
+        T0 = T_MELT
+    else:
+        def f(T, *b):
+            return terms.ln_a(list(b), T) - np.log(ice_water_activity(T))
+        lo, hi = T_FREEZE_MIN, T_TRIPLE
+        T0 = T_TRIPLE
+    Tf = _bracketed_root(f, lo, hi, bs, N)
+    dT = T0 - Tf
+    if np.any(nu_b == 0):
+        dT = np.where(nu_b == 0, 0.0, dT)
+    bad = ~np.isfinite(dT)
+    if np.any(bad):
+        caveats.append(Caveat("model-range",
+                              f"freezing point below {lo - 273.15:.0f} °C, outside the range "
+                              "this model can follow; not reported", None))
+    if np.any(np.isfinite(dT)):
+        Tf_ok = np.where(bad, T_MELT, T_MELT - dT)
+        caveats.extend(terms.caveats(bs, Tf_ok))
+    return T_MELT - dT, dT, caveats
+
+
+def _freezing_nonaqueous(comp, terms, bs, model):
+    c = _constants(comp)
+    caveats = []
+    if c.melting_point_K is None:
+        raise SolutionsError(f"no melting point for {comp.solvent.name} in solvent_constants.csv")
+    nu_b = comp.particle_molality()
+    if model == "dilute" or c.enthalpy_of_fusion_J_per_mol is None:
+        if c.Kf_K_kg_per_mol is None:
+            if c.enthalpy_of_fusion_J_per_mol is None:
+                raise SolutionsError(f"no cryoscopic data for {comp.solvent.name}")
+            Kf = R * c.melting_point_K ** 2 * comp.solvent.M / c.enthalpy_of_fusion_J_per_mol
+            caveats.append(Caveat("model-range", f"K_f of {comp.solvent.name} computed from its "
+                                  "enthalpy of fusion (R T_m² M / ΔH_fus)", comp.solvent.name))
+        else:
+            Kf = c.Kf_K_kg_per_mol
+        dT = Kf * nu_b
+        return c.melting_point_K - dT, dT, caveats
+    ln_a = terms.ln_a(bs, c.melting_point_K)
+    # van't Hoff with constant ΔH_fus: ln a = −ΔH/R (1/T − 1/T_m)
+    Tf = 1.0 / (1.0 / c.melting_point_K - R * ln_a / c.enthalpy_of_fusion_J_per_mol)
+    caveats.append(Caveat("model-range", f"freezing of {comp.solvent.name}: ideal solution with "
+                          "a constant enthalpy of fusion", comp.solvent.name))
+    return Tf, c.melting_point_K - Tf, caveats
+
+
+# ------------------------------------------------------------------ boiling point
+def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
+                  terms: ActivityTerms | None = None):
+    """Boiling point [K] at external pressure ``P`` [Pa] and elevation [K], with caveats."""
+    model = check_model(model)
+    terms = terms or activity_terms(comp, model)
+    bs = terms.molalities(comp)
+    N = comp.N
+    P = np.broadcast_to(np.asarray(P, dtype=float), (N,))
+    caveats: list[Caveat] = []
+    volatile = [s.name for s in comp.solutes if s.kind == "nonelectrolyte"
+                and s.solute in ("ethanol", "methanol", "2-propanol", "acetone")]
+    if volatile and comp.solvent.is_water:
+        caveats.append(Caveat("volatile-solute",
+                              f"{', '.join(volatile)} is volatile: the boiling point shown counts "
+                              "only the water's vapor and is too high; a real mixture boils "
+                              "lower and its vapor is rich in the volatile part", volatile[0]))
+    if comp.solvent.is_water:
+        if np.any(P < 611.657) or np.any(P > 22.064e6):
+            bad = float(P[(P < 611.657) | (P > 22.064e6)][0])
+            raise OutOfRangeError("pressure", bad / 1e3, 0.611657, 22064.0, "kPa",
+                                  "water boils only between its triple point and its critical "
+                                  "point")
+        T_pure = np.asarray(saturation_temperature(P), dtype=float)
+        ln_p = np.log(P)
+
+        def psat(T):
+            return saturation_pressure(np.clip(T, 273.16, 647.096))
+    else:
+        from .solvents import antoine_boiling_temperature, antoine_vapor_pressure
+        name = _solvent_name(comp)
+        T_pure = np.asarray(antoine_boiling_temperature(P, name), dtype=float)
+        ln_p = np.log(P)
+
+        def psat(T):
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                return antoine_vapor_pressure(T, name, extrapolate=True)
+    nu_b = comp.particle_molality()
+    if model == "dilute":
+        c = _constants(comp)
+        if c.Kb_K_kg_per_mol is None:
+            raise SolutionsError(f"no ebullioscopic constant for {comp.solvent.name}")
+        dT = c.Kb_K_kg_per_mol * nu_b
+        if np.any(np.abs(P - P_ATM) > 1.0):
+            caveats.append(Caveat("model-range", "the dilute model's K_b is the 1 atm value; "
+                                  "at other pressures it is only indicative", None))
+        return T_pure + dT, dT, caveats
+
+    def f(T, *args):
+        *b, lnp = args
+        return terms.ln_a(list(b), T) + np.log(psat(T)) - lnp
+
+    T_hi_max = 647.0 if comp.solvent.is_water else float(np.max(T_pure)) + 150.0
+    Tb = _bracketed_root(f, T_pure - 1e-9, np.minimum(T_pure + 100.0, T_hi_max),
+                         [*bs, ln_p], N)
+    dT = Tb - T_pure
+    dT = np.where(nu_b == 0, 0.0, dT)
+    if np.any(~np.isfinite(dT)):
+        caveats.append(Caveat("model-range", "boiling point more than 100 K above the pure "
+                              "solvent's, outside the model; not reported", None))
+    else:
+        caveats.extend(terms.caveats(bs, T_pure + dT))
+    return T_pure + dT, dT, caveats
+
+
+def _bracketed_root(f, lo, hi, bs, N):
+    """Vectorized root of f(T, *bs) in [lo, hi]; NaN where the bracket holds no root."""
+    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,)).copy()
+    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,)).copy()
+    args = tuple(np.broadcast_to(np.asarray(b, dtype=float), (N,)) for b in bs)
+    with np.errstate(all="ignore"):
+        flo, fhi = f(lo, *args), f(hi, *args)
+    ok = np.isfinite(flo) & np.isfinite(fhi) & (np.sign(flo) != np.sign(fhi))
+    exact_hi = fhi == 0
+    out = np.full(N, np.nan)
+    out[exact_hi] = hi[exact_hi]
+    ok &= ~exact_hi
+    if np.any(ok):
+        sub = tuple(a[ok] for a in args)
+        with np.errstate(all="ignore"):
+            res = elementwise.find_root(f, (lo[ok], hi[ok]), args=sub,
+                                        tolerances={"xatol": 1e-9, "xrtol": 1e-13})
+        out[ok] = np.where(res.success, res.x, np.nan)
+    return out
+
+
+# ------------------------------------------------------------------ everything at once
+def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None,
+                with_boiling: bool = True, with_freezing: bool = True) -> ColligativeResult:
+    """All colligative properties of ``comp`` at ``T`` [K] and external ``P`` [Pa].
+
+    rho : solution density at T [kg/m³], for the calculated osmolarity (optional).
+    """
+    model = check_model(model)
+    N = comp.N
+    T = np.broadcast_to(np.asarray(T, dtype=float), (N,)).copy()
+    P = np.broadcast_to(np.asarray(P, dtype=float), (N,)).copy()
+    terms = activity_terms(comp, model)
+    bs = terms.molalities(comp)
+    caveats: list[Caveat] = []
+    ln_a = terms.ln_a(bs, T)
+    caveats.extend(terms.caveats(bs, T))
+    a = np.exp(ln_a)
+    p_pure, cav = vapor_pressure_pure(comp, T)
+    caveats.extend(cav)
+    p_liq = a * p_pure
+
+    nan = np.full(N, np.nan)
+    Tf, dTf, below = nan, nan, np.zeros(N, bool)
+    if with_freezing:
+        Tf, dTf, cav = freezing_point(comp, model, terms)
+        caveats.extend(cav)
+        below = np.isfinite(Tf) & (T < Tf - 1e-9)
+    p_stable = p_liq.copy()
+    if comp.solvent.is_water and np.any(below):
+        p_ice = sublimation_pressure(np.where(below, T, 260.0))
+        p_stable = np.where(below, p_ice, p_liq)
+        i = int(np.argmax(below))
+        caveats.append(Caveat(
+            "ice", f"{T[i] - 273.15:.4g} °C is below the freezing point "
+            f"({Tf[i] - 273.15:.4g} °C): ice is the stable phase, so the vapor pressure shown "
+            f"is over ice ({p_ice[i] / 1e3:.4g} kPa); over the supercooled liquid it would be "
+            f"{p_liq[i] / 1e3:.4g} kPa", None,
+            {"vapor_pressure_ice_kPa": float(p_ice[i] / 1e3),
+             "vapor_pressure_supercooled_kPa": float(p_liq[i] / 1e3)}))
+    Tb, dTb = nan, nan
+    if with_boiling:
+        Tb, dTb, cav = boiling_point(comp, P, model, terms)
+        caveats.extend(cav)
+
+    Ms = comp.solvent.M
+    osmolality = -ln_a / Ms
+    nu_b = comp.particle_molality()
+    with np.errstate(invalid="ignore", divide="ignore"):
+        phi = np.where(nu_b > 0, osmolality / np.where(nu_b > 0, nu_b, 1.0), 1.0)
+    if comp.solvent.is_water:
+        rho_w = water_density(np.clip(T, 273.15, 623.15))
+    else:
+        rho_w = comp.solvent.rho_pure or 1000.0
+    Pi = -R * T * ln_a / (Ms / rho_w)
+    osmolarity = comp.particle_molarity(rho) if rho is not None else None
+    return ColligativeResult(model, describe_model(model), T, P, a, p_stable, p_liq, p_pure,
+                             Tf, dTf, Tb, dTb, osmolality, phi, Pi, osmolarity, below,
+                             _dedupe(caveats))
+
+
+def _dedupe(caveats):
+    seen, out = set(), []
+    for c in caveats:
+        k = (c.kind, c.message)
+        if k not in seen:
+            seen.add(k)
+            out.append(c)
+    return out

@@ -1,0 +1,208 @@
+"""One call from a recipe to every basis and property: the object every front end shows.
+
+:func:`evaluate` resolves a recipe, computes its density at the stated temperature, its
+composition in every basis and its colligative properties under the chosen model (and,
+beside them, the dilute-ideal figures), and gathers every warning and caution.
+:meth:`Evaluation.to_dict` is the JSON of ``python -m solutions evaluate --json``; its key
+names are a documented, stable interface (README, "JSON output").
+
+Basis conventions: an ingredient's mass-based figures (mass, mass fraction, g/L, ppm)
+refer to the form as weighed (a hydrate with its water; assay not applied), amounts and
+molalities to moles of that ingredient (= moles of dissolved solute); the water row's mass
+is the water added, while the solution's ``solvent_mass_g`` counts all water, crystal water
+included, and mole fractions are of the species actually in solution.
+"""
+from __future__ import annotations
+
+import datetime as _dt
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import __version__
+from .colligative import P_ATM, ColligativeResult, colligative
+from .density import solution_density
+from .errors import Caveat
+from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
+
+__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for"]
+
+
+@dataclass
+class Evaluation:
+    resolved: ResolvedRecipe
+    T: float                 # [K]
+    P: float                 # [Pa]
+    model: str
+    rho: float               # solution density at T [kg/m³]
+    density_method: str
+    props: ColligativeResult
+    dilute: ColligativeResult
+    warnings: list[Caveat] = field(default_factory=list)
+    cautions: list[str] = field(default_factory=list)
+
+    @property
+    def composition(self):
+        return self.resolved.composition
+
+    @property
+    def volume(self) -> float:
+        """Solution volume at T [m³]."""
+        return float(self.composition.m_total[0] / self.rho)
+
+    def components(self) -> list[dict]:
+        return component_table(self.resolved, self.rho)
+
+    def solution(self) -> dict:
+        p, d, c = self.props, self.dilute, self.composition
+        def num(x, scale=1.0, offset=0.0):
+            v = float(np.asarray(x).reshape(-1)[0])
+            return None if not math.isfinite(v) else v * scale + offset
+        out = {
+            "mass_g": c.m_total[0] * 1e3,
+            "volume_mL": self.volume * 1e6,
+            "density_g_per_mL": self.rho / 1e3,
+            "density_method": self.density_method,
+            "solvent": c.solvent.name,
+            "solvent_mass_g": float(c.m_solvent[0] * 1e3),
+            "temperature_C": self.T - 273.15,
+            "pressure_kPa": self.P / 1e3,
+            "water_activity": num(p.water_activity),
+            "vapor_pressure_kPa": num(p.vapor_pressure, 1e-3),
+            "vapor_pressure_liquid_kPa": num(p.vapor_pressure_liquid, 1e-3),
+            "vapor_pressure_pure_kPa": num(p.vapor_pressure_pure, 1e-3),
+            "vapor_pressure_lowering_kPa": num(p.vapor_pressure_lowering, 1e-3),
+            "freezing_point_C": num(p.freezing_point, 1.0, -273.15),
+            "freezing_point_depression_K": num(p.freezing_point_depression),
+            "boiling_point_C": num(p.boiling_point, 1.0, -273.15),
+            "boiling_point_elevation_K": num(p.boiling_point_elevation),
+            "osmolality_mOsm_per_kg": num(p.osmolality, 1e3),
+            "osmolarity_mOsm_per_L": num(p.osmolarity) if p.osmolarity is not None else None,
+            "osmotic_coefficient": num(p.osmotic_coefficient),
+            "osmotic_pressure_kPa": num(p.osmotic_pressure, 1e-3),
+            "model": p.model,
+            "model_description": p.model_name,
+            "dilute_ideal": {
+                "water_activity": num(d.water_activity),
+                "freezing_point_C": num(d.freezing_point, 1.0, -273.15),
+                "freezing_point_depression_K": num(d.freezing_point_depression),
+                "boiling_point_C": num(d.boiling_point, 1.0, -273.15),
+                "boiling_point_elevation_K": num(d.boiling_point_elevation),
+                "osmolality_mOsm_per_kg": num(d.osmolality, 1e3),
+                "osmotic_pressure_kPa": num(d.osmotic_pressure, 1e-3),
+            },
+        }
+        return out
+
+    def to_dict(self) -> dict:
+        r = self.resolved
+        return {
+            "tool": {"name": "solutions", "version": __version__,
+                     "date": _dt.date.today().isoformat()},
+            "recipe_name": r.recipe.name,
+            "conditions": {"temperature_C": self.T - 273.15, "pressure_kPa": self.P / 1e3,
+                           "model": self.model, "volumes_read_at_C": r.T_prep - 273.15},
+            "components": self.components(),
+            "solution": self.solution(),
+            "warnings": [w.message for w in self.warnings],
+            "cautions": list(self.cautions),
+        }
+
+
+def component_table(res: ResolvedRecipe, rho: float) -> list[dict]:
+    """One record per recipe row (solvent included) in every basis, at density ``rho``."""
+    c = res.composition
+    m_tot = float(c.m_total[0])
+    V = m_tot / rho
+    n_w = float(c.n_solvent[0])
+    n_all = float(c.n.sum()) + n_w
+    out = []
+    for j, row in enumerate(res.solute_rows):
+        ing = row.ingredient
+        m = float(res.pure_kg[j])
+        n = float(c.n[0, j])
+        out.append({
+            "ingredient": row.text, "library_name": ing.name, "row": row.row,
+            "formula": ing.formula, "molar_mass_g_per_mol": ing.M * 1e3,
+            "mass_g": m * 1e3, "weigh_g": float(res.weighed_kg[j]) * 1e3,
+            "dissolved_mass_g": n * ing.M_solute * 1e3,
+            "amount_mol": n,
+            "mass_fraction": m / m_tot,
+            "mole_fraction": n / n_all,
+            "molality_mol_per_kg": n / float(c.m_solvent[0]),
+            "molarity_mol_per_L": n / V / 1e3,
+            "mass_per_volume_g_per_L": m / V,
+            "percent_w_v": m / V / 10.0,
+            "ppm": m / m_tot * 1e6,
+            "ions": ing.ions,
+        })
+    w = res.solvent_row
+    mw = res.water_added_kg
+    out.append({
+        "ingredient": w.text if w is not None else c.solvent.name,
+        "library_name": c.solvent.name, "row": w.row if w is not None else None,
+        "formula": c.solvent.formula, "molar_mass_g_per_mol": c.solvent.M * 1e3,
+        "mass_g": mw * 1e3, "weigh_g": mw * 1e3, "dissolved_mass_g": float(c.m_solvent[0]) * 1e3,
+        "amount_mol": n_w, "mass_fraction": mw / m_tot, "mole_fraction": n_w / n_all,
+        "molality_mol_per_kg": None, "molarity_mol_per_L": n_w / V / 1e3,
+        "mass_per_volume_g_per_L": mw / V, "percent_w_v": mw / V / 10.0,
+        "ppm": mw / m_tot * 1e6, "ions": None, "solvent": True,
+    })
+    return out
+
+
+def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[str]:
+    """The usual cautions for what this recipe's numbers could be used for."""
+    res = ev_or_res.resolved if isinstance(ev_or_res, Evaluation) else ev_or_res
+    props = props or (ev_or_res.props if isinstance(ev_or_res, Evaluation) else None)
+    out = []
+    for ing in {r.ingredient.key: r.ingredient for r in res.recipe.rows}.values():
+        if ing.caution:
+            out.append(f"{ing.name}: {ing.caution}.")
+    comp = res.composition
+    if comp.solvent.is_water:
+        out.append("Osmolality and tonicity here are model estimates. Anything to be injected, "
+                   "infused or put in the eye must be confirmed by measurement (e.g. "
+                   "freezing-point osmometry) and meet your pharmacopoeia and licensed "
+                   "practice; sterility, pH and particulates are outside this tool.")
+    if props is not None:
+        dT = float(np.asarray(props.freezing_point_depression).reshape(-1)[0])
+        if math.isfinite(dT) and dT > 1.0:
+            out.append("Freezing points are estimates for the liquid–ice equilibrium. For freeze "
+                       "protection, keep a margin, confirm with a measured freezing point, and "
+                       "follow the equipment maker's and local codes' requirements; slush can "
+                       "form above the stated point in real systems.")
+    out.append("Vapor pressure rises steeply with temperature: never heat a closed or sealed "
+               "vessel unless it is rated and fitted with pressure relief.")
+    return out
+
+
+def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P_ATM,
+             model: str = "nonideal", rho_measured: float | None = None,
+             batch: tuple[str, float] | None = None, T_prep: float = T_PREP) -> Evaluation:
+    """Resolve (if needed) and evaluate a recipe at ``T`` [K] and ``P`` [Pa].
+
+    rho_measured : measured solution density [kg/m³], used for volumes at T_prep and T.
+    """
+    res = recipe if isinstance(recipe, ResolvedRecipe) else resolve(
+        recipe, batch=batch, T_prep=T_prep, rho_measured=rho_measured)
+    comp = res.composition
+    dres = solution_density(comp, T, measured=rho_measured)
+    rho = float(dres.rho[0])
+    props = colligative(comp, T, P, model, rho=rho)
+    dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
+    warnings = _merge([*res.caveats, *dres.caveats, *props.caveats])
+    ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
+                    warnings)
+    ev.cautions = cautions_for(ev)
+    return ev
+
+
+def _merge(caveats):
+    seen, out = set(), []
+    for c in caveats:
+        if c.message not in seen:
+            seen.add(c.message)
+            out.append(c)
+    return out
