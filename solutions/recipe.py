@@ -368,6 +368,8 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
                           f"{absolute.row} ({absolute.text!r}) is an absolute amount, so the "
                           "batch is undefined; give a batch size or make the solvent "
                           "'q.s. to' a mass or volume", solvent_row.row, "amount", solvent_row.text)
+    if sb is Basis.BALANCE and batch is not None:
+        has_absolute = True  # the batch fixes the scale
     if sb is Basis.BALANCE and batch is None:
         batch_mass = 1.0
     elif sb is Basis.BALANCE and batch is not None:
@@ -381,6 +383,8 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
     for it in range(1, max_iter + 1):
         x = _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute,
                           batch_mass, batch)
+        if x[2] < 0:  # not enough room for the solvent: report it below, not a density
+            break
         comp = _composition(rows, solvent, M, h, x)
         if rho_measured is not None:
             break
@@ -395,6 +399,7 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
         raise RecipeError("the density of this recipe did not settle; check the amounts")
     m_tot, m_w, m_wa, weighed = x
     _check_result(rows, solvent_row, solvent, m_tot, m_wa, rho, M, h, weighed)
+    comp = _composition(rows, solvent, M, h, x)
     res = ResolvedRecipe(recipe, comp, solvent_row, weighed / np.array([r.assay for r in rows])
                          if rows else weighed, weighed, float(m_wa), float(rho), T_prep, it,
                          caveats)
