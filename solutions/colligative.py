@@ -320,7 +320,9 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     with np.errstate(invalid="ignore", divide="ignore"):
         phi = np.where(nu_b > 0, osmolality / np.where(nu_b > 0, nu_b, 1.0), 1.0)
     if comp.solvent.is_water:
-        rho_w = water_density(np.clip(T, 273.15, 623.15))
+        Tw = np.clip(T, 273.15, 623.15)
+        # the liquid's molar volume: above the normal boiling point, at its own saturation
+        rho_w = water_density(Tw, np.maximum(P_ATM, 1.0001 * saturation_pressure(Tw)))
     else:
         rho_w = comp.solvent.rho_pure or 1000.0
     Pi = -R * T * ln_a / (Ms / rho_w)

@@ -36,7 +36,7 @@ import pandas as pd
 
 from .composition import Composition
 from .errors import Caveat
-from .water import water_density
+from .water import saturation_pressure, water_density
 
 __all__ = ["DensityResult", "solution_density", "apparent_density", "density_table"]
 
@@ -94,7 +94,9 @@ def solution_density(comp: Composition, T, measured=None) -> DensityResult:
     table = density_table()
     w = comp.mass_fraction()
     w_s = w.sum(axis=1)
-    rho_w = water_density(np.clip(T, 273.15, None))
+    Tw = np.clip(T, 273.15, 623.15)
+    # liquid water above its normal boiling point exists only at its saturation pressure
+    rho_w = water_density(Tw, np.maximum(101325.0, 1.0001 * saturation_pressure(Tw)))
     if np.any(T < 273.15):
         caveats.append(Caveat("model-range", "density below 0 °C uses water's density at 0 °C"))
     v = comp.solvent_mass_fraction() / rho_w

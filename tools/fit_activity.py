@@ -86,14 +86,21 @@ def main() -> None:
     if ref.exists():
         c = pd.read_csv(ref)
         pg = c[c.solute.str.lower().str.contains("propylene")].dropna(
-            subset=["mass_pct", "freezing_point_C"])
-        pg = pg[pg.mass_pct > 0]
+            subset=["volume_pct", "freezing_point_C"])
+        pg = pg[pg.volume_pct > 0]
         M = molar_mass_from_formula("C3H8O2")
-        w = pg.mass_pct.to_numpy() / 100
+        # antifreeze tables give % by volume of the pure liquids mixed: convert with the
+        # pure densities at 20 °C (propylene glycol from the ingredient library, water IF97)
+        from solutions.ingredients import default_library
+        from solutions.water import water_density
+        rho_pg, rho_w = default_library().get("propylene glycol").rho_pure, water_density(293.15)
+        v = pg.volume_pct.to_numpy() / 100
+        w = v * rho_pg / (v * rho_pg + (1 - v) * rho_w)
         src = str(pg.source.iloc[0]) if len(pg) else ""
-        sets.append(("propylene glycol", w / ((1 - w) * M), pg.mass_pct.to_numpy(),
+        sets.append(("propylene glycol", w / ((1 - w) * M), w * 100,
                      -pg.freezing_point_C.to_numpy(),
-                     "Norrish-form fit by tools/fit_activity.py to " + src))
+                     "Norrish-form fit by tools/fit_activity.py to " + src
+                     + " (volume % converted to mass % with pure densities at 20 °C)"))
     rows = []
     for key, b, wpct, dT, src in sets:
         if len(b) < 3:
@@ -101,6 +108,7 @@ def main() -> None:
             continue
         x_s = b * M_WATER / (1 + b * M_WATER)
         xmax = float(x_s.max())
+        # terms grow with the range; a short or scattered table gets no more than three
         nterms = 1 if xmax < 0.03 else (2 if xmax < 0.1 else (3 if xmax < 0.2 or len(b) < 20
                                                               else 5))
         K = fit(x_s, dT, T0, nterms)

@@ -1,0 +1,185 @@
+"""Colligative properties against published data: IAPWS, handbook freezing points, saline."""
+import numpy as np
+import pandas as pd
+import pytest
+
+from solutions.colligative import colligative, freezing_point, boiling_point, T_MELT
+from solutions.composition import Composition
+from solutions.errors import OutOfRangeError
+from solutions.evaluate import evaluate
+from solutions.ingredients import default_library
+from solutions.recipe import read_recipe
+from solutions.water import saturation_pressure
+
+LIB = default_library()
+WATER = LIB.get("water")
+TABLES = "solutions/data/tables/crc_aqueous_20C_{}.csv"
+
+
+def binary(name, w):
+    return Composition.from_mass_fractions((LIB.get(name),), np.asarray(w, float)[:, None], WATER)
+
+
+def crc(kind, solute, wmax):
+    t = pd.read_csv(TABLES.format(kind))
+    return t[(t.solute == solute) & (t.mass_pct <= wmax)].dropna(
+        subset=["freezing_point_depression_K"])
+
+
+FREEZING_CASES = [
+    ("electrolytes", "Sodium chloride", "NaCl", 20),
+    ("electrolytes", "Potassium chloride", "KCl", 15),
+    ("electrolytes", "Calcium chloride", "CaCl2", 22),
+    ("nonelectrolytes", "Sucrose", "sucrose", 50),
+    ("nonelectrolytes", "D-Glucose", "glucose anhydrous", 40),
+    ("nonelectrolytes", "Glycerol", "glycerol", 50),
+    ("nonelectrolytes", "1,2-Ethanediol", "ethylene glycol", 50),
+    ("nonelectrolytes", "Ethanol", "ethanol", 40),
+]
+
+
+@pytest.mark.parametrize("kind, solute, name, wmax", FREEZING_CASES,
+                         ids=[c[2] for c in FREEZING_CASES])
+def test_freezing_point_against_crc(kind, solute, name, wmax):
+    """CRC Handbook 102nd ed. (2021) Concentrative Properties of Aqueous Solutions:
+    freezing-point depressions within max(0.15 K, 3 %) at every tabulated point (the CRC
+    table stops at 13 % for KCl, 42 % sucrose, 30 % glucose, 40 % glycerol). The dilute-ideal
+    model fails the same check (see README table), which is why the default exists."""
+    d = crc(kind, solute, wmax)
+    ref = d.freezing_point_depression_K.to_numpy()
+    _, dT, _ = freezing_point(binary(name, d.mass_pct / 100), "nonideal")
+    np.testing.assert_array_less(np.abs(dT - ref), np.maximum(0.15, 0.03 * ref))
+    _, dT_dilute, _ = freezing_point(binary(name, d.mass_pct / 100), "dilute")
+    if ref.max() > 5:
+        assert np.max(np.abs(dT_dilute - ref) / np.maximum(0.15, 0.03 * ref)) > 1.0
+
+
+def test_calcium_chloride_near_25_percent():
+    """CRC 24 % CaCl2 (ΔT 26.04 K, from the CRC table): within 5 % — the one point of the
+    issue's range where the model misses 3 % (documented in the README)."""
+    d = crc("electrolytes", "Calcium chloride", 25)
+    row = d[d.mass_pct == 24]
+    _, dT, _ = freezing_point(binary("CaCl2", row.mass_pct / 100))
+    assert dT[0] == pytest.approx(row.freezing_point_depression_K.iloc[0], rel=0.05)
+
+
+def test_propylene_glycol_against_lange():
+    """Lange's Handbook 15th ed., Table 5.13 (propylene glycol, % by volume; converted with
+    pure densities at 20 °C): within max(1.0 K, 3 %). The table steps irregularly by ±0.5 K
+    (e.g. 2.8, 2.2, 3.9 K per 5 %), so a smooth model cannot follow it closer."""
+    ref = pd.read_csv("tests/reference/coolant_freezing.csv")
+    pg = ref[ref.solute == "propylene glycol"].dropna(subset=["volume_pct"])
+    v = pg.volume_pct.to_numpy() / 100
+    rho_pg = LIB.get("propylene glycol").rho_pure
+    w = v * rho_pg / (v * rho_pg + (1 - v) * 998.2)
+    Tf, _, _ = freezing_point(binary("propylene glycol", w))
+    T_ref = pg.freezing_point_C.to_numpy()
+    np.testing.assert_array_less(np.abs(Tf - 273.15 - T_ref), np.maximum(1.0, 0.03 * -T_ref))
+
+
+def test_normal_saline():
+    """0.9 % w/v NaCl: calculated osmolarity ≈ 308 mOsm/L (2 × 154, the label count; common
+    practice); osmolality 286 mOsm/kg measured by freezing-point osmometry (Williams 1999,
+    Anesth. Analg., in tests/reference/osmolality.csv), ± 6; freezing point −0.53 ± 0.03 °C
+    (the isotonic body-fluid reference −0.52 °C, common practice)."""
+    r = read_recipe("ingredient,amount,unit\nsodium chloride,0.9,% w/v\nwater,q.s. to 1000,mL\n")
+    s = evaluate(r, T=298.15).to_dict()["solution"]
+    assert s["osmolarity_mOsm_per_L"] == pytest.approx(308, abs=1.5)
+    assert s["osmolality_mOsm_per_kg"] == pytest.approx(286, abs=6)
+    assert s["freezing_point_C"] == pytest.approx(-0.53, abs=0.03)
+
+
+def test_one_percent_nacl_freezing_point():
+    """Handbook tables put 1 % w/w NaCl at about −0.59 °C (CRC 20 °C table: 0.59 K)."""
+    Tf, _, _ = freezing_point(binary("NaCl", [0.01]))
+    assert Tf[0] - T_MELT == pytest.approx(-0.59, abs=0.02)
+
+
+def test_water_activity_of_saturated_nacl():
+    """Greenspan (1977) J. Res. NBS 81A, 89: saturated NaCl at 25 °C, 75.29 % RH; 6.15 mol/kg
+    saturation (CRC solubility, in solutions/data/solubility.csv)."""
+    comp = Composition.from_molalities((LIB.get("NaCl"),), [[6.15]], WATER)
+    a = colligative(comp, 298.15, with_boiling=False, with_freezing=False).water_activity
+    assert a[0] == pytest.approx(0.7529, abs=0.003)
+
+
+def test_pure_water_boils_at_its_saturation_temperature():
+    """IAPWS-IF97 Region 4: T_sat(101.325 kPa) = 373.124 K (99.974 °C on ITS-90; "100 °C" is
+    the older scale's definition, common practice). Also at 79.5 kPa (a ~2000 m lab)."""
+    comp = Composition.from_molalities((LIB.get("NaCl"),), [[0.0]], WATER)
+    Tb, dT, _ = boiling_point(comp, 101325.0)
+    assert Tb[0] == pytest.approx(373.124, abs=1e-3) and dT[0] == 0.0
+    Tb2, _, _ = boiling_point(comp, 79.5e3)
+    assert saturation_pressure(Tb2[0]) == pytest.approx(79.5e3, rel=1e-9)
+
+
+def test_boiling_elevation_matches_vapor_pressure_balance():
+    """At the boiling point, a_w · p*(T) equals the external pressure (definition)."""
+    comp = binary("NaCl", [0.1, 0.2])
+    res = colligative(comp, 298.15, 50e3)
+    from solutions.activity.models import solvent_activity
+    ln_a, _ = solvent_activity(comp, res.boiling_point)
+    np.testing.assert_allclose(np.exp(ln_a) * saturation_pressure(res.boiling_point), 50e3,
+                               rtol=1e-8)
+    assert np.all(res.boiling_point_elevation > 0)
+
+
+def test_vapor_pressure_facts():
+    """Common practice: water's vapor pressure ≈ 0.61 kPa at 0 °C, 2.3 kPa at 20 °C,
+    101.3 kPa at 100 °C; at −10 °C supercooled water ≈ 0.29 kPa and ice ≈ 0.26 kPa."""
+    pure = Composition.from_molalities((LIB.get("sucrose"),), [[0.0]], WATER)
+    for T, p in ((273.16, 0.61), (293.15, 2.3), (373.15, 101.4)):
+        res = colligative(pure, T, with_boiling=False)
+        assert res.vapor_pressure_pure[0] / 1e3 == pytest.approx(p, rel=0.02)
+    # a dilute solution held at −10 °C: ice is stable, so the pressure over ice is reported
+    res = colligative(binary("sucrose", [0.02]), 263.15, with_boiling=False)
+    assert res.below_freezing[0]
+    assert res.vapor_pressure[0] / 1e3 == pytest.approx(0.26, abs=0.005)
+    assert res.vapor_pressure_liquid[0] / 1e3 == pytest.approx(0.29, abs=0.01)
+    assert any(c.kind == "ice" for c in res.caveats)
+
+
+def test_osmotic_pressure_van_t_hoff_limit():
+    """Dilute limit: Π ≈ c R T (van 't Hoff, textbook); 0.01 mol/kg sucrose at 25 °C ≈ 24.7 kPa."""
+    res = colligative(Composition.from_molalities((LIB.get("sucrose"),), [[0.01]], WATER), 298.15)
+    assert res.osmotic_pressure[0] / 1e3 == pytest.approx(0.01 * 0.997 * 8.314462618 * 298.15, rel=0.01)
+
+
+def test_ideal_model_is_raoult():
+    """Ideal solution: a_w = x_w with ions counted (Raoult's law)."""
+    comp = binary("NaCl", [0.05])
+    res = colligative(comp, 298.15, model="ideal", with_boiling=False)
+    b = comp.molality()[0, 0]
+    xw = 1 / (1 + 2 * b * WATER.M)
+    assert res.water_activity[0] == pytest.approx(xw, rel=1e-12)
+
+
+def test_models_are_named_and_validity_warns():
+    ev = evaluate(read_recipe("ingredient,amount,unit\nNaCl,20,% w/w\nwater,balance,\n"),
+                  T=353.15)
+    d = ev.to_dict()
+    assert d["solution"]["model"] == "nonideal"
+    comp = binary("glycerol", [0.8])
+    res = colligative(comp, 298.15, with_boiling=False)
+    assert any("glycerol" in c.message.lower() and "extrapolated" in c.message for c in res.caveats)
+
+
+def test_vectorized_sweep_matches_scalar():
+    """200 concentrations in one call equal the one-at-a-time results."""
+    w = np.linspace(0.001, 0.2, 200)
+    Tf, _, _ = freezing_point(binary("NaCl", w))
+    one = [freezing_point(binary("NaCl", [x]))[0][0] for x in w[::40]]
+    np.testing.assert_allclose(Tf[::40], one, rtol=1e-12)
+
+
+def test_supercritical_temperature_is_an_error():
+    with pytest.raises(OutOfRangeError, match="critical point"):
+        colligative(binary("NaCl", [0.01]), 700.0)
+
+
+def test_nonaqueous_solvent_ideal():
+    """Camphor-free check: 0.1 mol/kg of a solute in ethanol raises its boiling point by
+    K_b · b = 1.23 × 0.1 K (dilute model, CRC ebullioscopic constant in solvent_constants.csv)."""
+    comp = Composition.from_molalities((LIB.get("glycerol"),), [[0.1]], LIB.get("ethanol"))
+    _, dT, _ = boiling_point(comp, 101325.0, "dilute")
+    assert dT[0] == pytest.approx(0.123, rel=1e-9)
