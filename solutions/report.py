@@ -9,8 +9,11 @@ import csv
 import html
 import io
 import math
+import re
 
-__all__ = ["text_report", "summary_csv", "safe_cell", "PROPERTY_LABELS", "BASIS_LABELS", "fmt"]
+__all__ = ["text_report", "summary_csv", "safe_cell", "PROPERTY_LABELS", "BASIS_LABELS", "fmt",
+           "fmt_fixed", "property_text", "dilute_text", "warning_links", "json_text",
+           "chart_svg", "html_report", "property_model"]
 
 #: (key in ``solution``, label, unit) in display order
 PROPERTY_LABELS = [
@@ -135,3 +138,241 @@ def summary_csv(d: dict) -> str:
 
 def _esc(x) -> str:
     return html.escape(str(x))
+
+
+# ------------------------------------------------------------------ display precision
+#: significant figures a property is shown with (keys of ``solution``); the freezing and
+#: boiling points are shown to the decimals of their shift (see :func:`property_text`)
+PROPERTY_SIG = {
+    "density_g_per_mL": 5, "volume_mL": 5, "mass_g": 5, "vapor_pressure_kPa": 4,
+    "vapor_pressure_lowering_kPa": 3, "freezing_point_depression_K": 3,
+    "boiling_point_elevation_K": 3, "osmolality_mOsm_per_kg": 3,
+    "osmolarity_mOsm_per_L": 3, "osmotic_coefficient": 3, "osmotic_pressure_kPa": 3,
+}
+#: fixed decimals for properties whose scale is bounded
+PROPERTY_DECIMALS = {"water_activity": 4}
+#: a temperature and its shift are shown to the same decimals, so that the two lines agree
+_SHIFT_OF = {"freezing_point_C": "freezing_point_depression_K",
+             "boiling_point_C": "boiling_point_elevation_K"}
+
+
+def fmt_fixed(x, decimals: int) -> str:
+    """A number with a fixed number of decimals; '—' for a missing value.
+
+    >>> fmt_fixed(-0.53213, 3), fmt_fixed(None, 2)
+    ('-0.532', '—')
+    """
+    if x is None or (isinstance(x, float) and not math.isfinite(x)):
+        return "—"
+    return f"{x:.{max(decimals, 0)}f}"
+
+
+def _decimals_for_sig(x: float, sig: int) -> int:
+    if x is None or not math.isfinite(x) or x == 0:
+        return max(sig - 1, 0)
+    return max(sig - 1 - int(math.floor(math.log10(abs(x)))), 0)
+
+
+def _shown(key: str, values: dict):
+    """(text, decimals or None) of ``values[key]`` under the display policy."""
+    x = values.get(key)
+    if key in PROPERTY_DECIMALS:
+        return fmt_fixed(x, PROPERTY_DECIMALS[key]), PROPERTY_DECIMALS[key]
+    if key in _SHIFT_OF:
+        shift = values.get(_SHIFT_OF[key])
+        dec = min(max(_decimals_for_sig(shift, 3) if shift else 2, 1), 3)
+        return fmt_fixed(x, dec), dec
+    if key in ("freezing_point_depression_K", "boiling_point_elevation_K") and x is not None \
+            and math.isfinite(x):
+        dec = min(max(_decimals_for_sig(x, 3) if x else 2, 1), 3)
+        return fmt_fixed(x, dec), dec
+    return fmt(x, PROPERTY_SIG.get(key, 4)), None
+
+
+def property_text(s: dict, key: str) -> str:
+    """A solution property as the dashboard and the printable report show it.
+
+    Significant figures follow :data:`PROPERTY_SIG`; a freezing or boiling point is shown
+    to the decimals of its depression or elevation (3 significant figures, 1 to 3
+    decimals), so that a point and its shift read consistently.
+
+    >>> s = {"freezing_point_C": -0.53213, "freezing_point_depression_K": 0.53213,
+    ...      "osmolality_mOsm_per_kg": 286.68, "water_activity": 0.99485}
+    >>> [property_text(s, k) for k in ("freezing_point_C", "freezing_point_depression_K",
+    ...                                "osmolality_mOsm_per_kg", "water_activity")]
+    ['-0.532', '0.532', '287', '0.9949']
+    """
+    return _shown(key, s)[0]
+
+
+def dilute_text(s: dict, key: str) -> str:
+    """The dilute-ideal figure of ``key`` with the same display policy ('' if none)."""
+    dil = s.get("dilute_ideal") or {}
+    if key not in dil:
+        return ""
+    return _shown(key, dil)[0]
+
+
+# ------------------------------------------------------------------ warnings by property
+_AT_T = ("water_activity", "vapor_pressure_kPa", "vapor_pressure_lowering_kPa",
+         "osmolality_mOsm_per_kg", "osmotic_coefficient", "osmotic_pressure_kPa")
+_FREEZING = ("freezing_point_C", "freezing_point_depression_K")
+_BOILING = ("boiling_point_C", "boiling_point_elevation_K")
+_DENSITY = ("density_g_per_mL", "volume_mL", "osmolarity_mOsm_per_L")
+_T_IN_MESSAGE = re.compile(r"temperature\s+([0-9]+(?:\.[0-9]+)?)\s*K")
+
+
+def warning_links(d: dict) -> dict[str, list[int]]:
+    """Which warnings (1-based numbers in ``d['warnings']``) bear on which property.
+
+    Warnings travel as plain messages; this reads them the way a chemist would: a
+    density warning concerns density, volume and osmolarity; a freezing- or boiling-
+    point warning its own rows; an activity-model warning at a stated temperature the
+    property computed nearest that temperature (the solution at T, its freezing point
+    or its boiling point); any other activity warning every activity-based property.
+    A warning that matches nothing is still listed, just not linked.
+
+    >>> d = {"warnings": ["density data for X reach 10 %"], "solution": {}}
+    >>> warning_links(d)["volume_mL"]
+    [1]
+    """
+    s = d.get("solution", {})
+    links: dict[str, list[int]] = {k: [] for k, _, _ in PROPERTY_LABELS}
+    targets = {"T": (s.get("temperature_C"), _AT_T),
+               "Tf": (s.get("freezing_point_C"), _FREEZING),
+               "Tb": (s.get("boiling_point_C"), _BOILING)}
+    for i, msg in enumerate(d.get("warnings", []), start=1):
+        low = msg.lower()
+        keys: tuple[str, ...] = ()
+        if "ice is the stable phase" in low:
+            keys = ("vapor_pressure_kPa",)
+        elif "volatile" in low:
+            keys = _BOILING
+        elif "density" in low:
+            keys = _DENSITY
+        elif "freezing point" in low:
+            keys = _FREEZING
+        elif "boiling point" in low or "k_b" in low:
+            keys = _BOILING
+        elif (m := _T_IN_MESSAGE.search(msg)):
+            t_c = float(m.group(1)) - 273.15
+            near = [(abs(t_c - v), ks) for v, ks in targets.values()
+                    if v is not None and math.isfinite(v)]
+            keys = min(near, key=lambda x: x[0])[1] if near else _AT_T + _FREEZING + _BOILING
+        elif any(w in low for w in ("activity", "pitzer", "debye", "norrish", "raoult",
+                                    "ideal solute", "model")):
+            keys = _AT_T + _FREEZING + _BOILING
+        for k in keys:
+            links[k].append(i)
+    return links
+
+
+# ------------------------------------------------------------------ JSON and HTML
+def json_text(d: dict) -> str:
+    """The JSON text of ``python -m solutions evaluate --json`` for the same dictionary."""
+    from .cli import dumps
+    return dumps(d)
+
+
+def chart_svg(chart) -> str:
+    """An Altair chart as inline SVG text, rendered offline by vl-convert."""
+    import vl_convert as vlc
+    svg = vlc.vegalite_to_svg(chart.to_json())
+    return svg[svg.index("<svg"):] if "<svg" in svg else svg
+
+
+_MODEL_SHORT = {"nonideal": "non-ideal", "ideal": "ideal solution", "dilute": "dilute ideal"}
+
+
+def property_model(s: dict, key: str) -> str:
+    """The model a solution property comes from, in a few words."""
+    if key in ("density_g_per_mL", "volume_mL"):
+        return s.get("density_method", "")
+    if key == "mass_g":
+        return "from the recipe"
+    if key == "osmolarity_mOsm_per_L":
+        return "ideal particle count"
+    return _MODEL_SHORT.get(s.get("model"), s.get("model", ""))
+
+
+_CSS = """
+body{font-family:Georgia,'Times New Roman',serif;color:#1d1d1d;margin:2em auto;max-width:60em;
+line-height:1.35;padding:0 1em}
+h1{font-size:1.6em;margin-bottom:.1em}h2{font-size:1.2em;border-bottom:1px solid #999;
+margin-top:1.6em}
+table{border-collapse:collapse;margin:.5em 0;font-size:.9em}
+th,td{border:1px solid #bbb;padding:.2em .5em;vertical-align:top}
+th{background:#efece6;text-align:left}td.n{text-align:right;font-variant-numeric:tabular-nums}
+.meta{color:#555;font-size:.9em}.caution{background:#fbf3e4;border-left:4px solid #b7791f;
+padding:.4em .7em;margin:.4em 0}.warn{background:#fdf0ee;border-left:4px solid #a33;
+padding:.3em .7em;margin:.3em 0}
+figure{margin:1em 0;page-break-inside:avoid}figcaption{font-size:.9em;color:#444}
+@media print{body{margin:0;max-width:none}h2{page-break-after:avoid}}
+"""
+
+
+def html_report(d: dict, charts: dict | None = None) -> str:
+    """A printable, self-contained HTML report of one evaluation.
+
+    d : the dictionary of :meth:`solutions.evaluate.Evaluation.to_dict`, optionally with a
+        ``recipe`` list of ``{ingredient, amount, unit}`` rows as written.
+    charts : ``{caption: altair chart}``; each is embedded as inline SVG (no scripts,
+        no links: the file opens and prints offline).
+
+    Shows the recipe, the conditions, every basis of every component, every property
+    with its model, dilute-ideal figure and linked warnings, the warnings, the
+    cautions, and the tool version and date.
+    """
+    e = _esc
+    s, cond, tool = d["solution"], d["conditions"], d.get("tool", {})
+    title = d.get("recipe_name") or "Recipe"
+    out = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
+           f"<title>{e(title)} — solution report</title><style>{_CSS}</style></head><body>"]
+    out.append(f"<h1>{e(title)}</h1>")
+    out.append(f'<p class="meta">Report by {e(tool.get("name", "solutions"))} '
+               f'{e(tool.get("version", ""))}, {e(tool.get("date", ""))}. Model estimates: '
+               "confirm by measurement where it matters.</p>")
+    out.append("<h2>Conditions</h2><table>")
+    for lab, val in (("Temperature", f"{fmt(cond['temperature_C'], 5)} °C"),
+                     ("External pressure", f"{fmt(cond['pressure_kPa'], 6)} kPa"),
+                     ("Activity model", s.get("model_description", cond.get("model", ""))),
+                     ("Recipe volumes read at", f"{fmt(cond.get('volumes_read_at_C'), 4)} °C"),
+                     ("Density from", s.get("density_method", ""))):
+        out.append(f"<tr><th>{e(lab)}</th><td>{e(val)}</td></tr>")
+    out.append("</table>")
+    if d.get("recipe"):
+        out.append("<h2>Recipe as written</h2><table><tr><th>Ingredient</th><th>Amount</th>"
+                   "<th>Unit</th></tr>")
+        for r in d["recipe"]:
+            out.append(f"<tr><td>{e(r.get('ingredient', ''))}</td><td>{e(r.get('amount', ''))}"
+                       f"</td><td>{e(r.get('unit', ''))}</td></tr>")
+        out.append("</table>")
+    out.append("<h2>Composition</h2><table><tr><th>Ingredient</th><th>To weigh [g]</th>")
+    out.extend(f"<th>{e(lab)}{' [' + e(u) + ']' if u else ''}</th>" for _, lab, u in BASIS_LABELS)
+    out.append("</tr>")
+    for c in d["components"]:
+        out.append(f"<tr><td>{e(c['ingredient'])}</td><td class='n'>{e(fmt(c.get('weigh_g')))}</td>")
+        out.extend(f"<td class='n'>{e(fmt(c.get(k)))}</td>" for k, _, _ in BASIS_LABELS)
+        out.append("</tr>")
+    out.append("</table>")
+    links = warning_links(d)
+    out.append("<h2>Properties</h2><table><tr><th>Property</th><th>Value</th><th>Unit</th>"
+               "<th>Model</th><th>Dilute ideal</th><th>Warnings</th></tr>")
+    for key, lab, unit in PROPERTY_LABELS:
+        w = ", ".join(str(i) for i in links.get(key, []))
+        out.append(f"<tr><td>{e(lab)}</td><td class='n'>{e(property_text(s, key))}</td>"
+                   f"<td>{e(unit)}</td><td>{e(property_model(s, key))}</td>"
+                   f"<td class='n'>{e(dilute_text(s, key))}</td><td>{e(w)}</td></tr>")
+    out.append("</table>")
+    if d.get("warnings"):
+        out.append("<h2>Warnings</h2>")
+        out.extend(f'<p class="warn">{i}. {e(w)}</p>' for i, w in enumerate(d["warnings"], 1))
+    if d.get("cautions"):
+        out.append("<h2>Cautions</h2>")
+        out.extend(f'<p class="caution">{e(c)}</p>' for c in d["cautions"])
+    if charts:
+        out.append("<h2>Charts</h2>")
+        for caption, chart in charts.items():
+            out.append(f"<figure>{chart_svg(chart)}<figcaption>{e(caption)}</figcaption></figure>")
+    out.append("</body></html>")
+    return "\n".join(out)
