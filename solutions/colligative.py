@@ -129,6 +129,8 @@ def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTe
     if not comp.solvent.is_water:
         return _freezing_nonaqueous(comp, terms, bs, model)
     nu_b = comp.particle_molality()
+    from .limits import eutectic_caveats
+    caveats.extend(eutectic_caveats(comp))
     if model == "dilute":
         Kf = _constants(comp).Kf_K_kg_per_mol
         dT = Kf * nu_b

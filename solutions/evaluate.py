@@ -192,7 +192,8 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     rho = float(dres.rho[0])
     props = colligative(comp, T, P, model, rho=rho)
     dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
-    warnings = _merge([*res.caveats, *dres.caveats, *props.caveats])
+    from .limits import solubility_caveats
+    warnings = _merge([*res.caveats, *dres.caveats, *props.caveats, *solubility_caveats(comp)])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings)
     ev.cautions = cautions_for(ev)

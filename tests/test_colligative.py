@@ -183,3 +183,28 @@ def test_nonaqueous_solvent_ideal():
     comp = Composition.from_molalities((LIB.get("glycerol"),), [[0.1]], LIB.get("ethanol"))
     _, dT, _ = boiling_point(comp, 101325.0, "dilute")
     assert dT[0] == pytest.approx(0.123, rel=1e-9)
+
+
+def test_eutectic_is_flagged_not_silent():
+    """Above the NaCl–water eutectic (23.3 % w/w, −21.1 °C; Lange's Handbook 15th ed. Table
+    5.13) the ice-line freezing point is metastable and the result says so."""
+    _, _, cav = freezing_point(binary("NaCl", [0.25]))
+    assert any(c.kind == "eutectic" and "23.3 %" in c.message and "-21.1 °C" in c.message
+               for c in cav)
+    _, _, cav = freezing_point(binary("NaCl", [0.20]))
+    assert not any(c.kind == "eutectic" for c in cav)
+
+
+def test_calcium_chloride_eutectic_temperature():
+    """The ice line of CaCl2 reaches about −50 °C at about 31 % w/w (the eutectic, Thomsen,
+    phasediagram.dk, approximate values). The model's ice line at 30 % lies within 4 K of it;
+    the CRC 20 °C table's 41.0 K at 30 % would put the eutectic far higher, which is why the
+    model is not fitted to CRC above 22 % (README)."""
+    Tf, _, _ = freezing_point(binary("CaCl2", [0.30]))
+    assert Tf[0] - 273.15 == pytest.approx(-50.0, abs=4.0)
+
+
+def test_solubility_is_flagged():
+    """Sucrose above 211.4 g/100 g water (25 °C; Mohos 2010, Appendix 2) is flagged."""
+    ev = evaluate(read_recipe("ingredient,amount,unit\nsucrose,75,% w/w\nwater,balance,\n"))
+    assert any("exceeds its solubility" in w.message for w in ev.warnings)
