@@ -465,11 +465,21 @@ def _range_caveat(salt: PitzerSalt, quantity: str, unit: str, values: np.ndarray
     if below.size == 0 and above.size == 0:
         return None
     worst = float(below.min()) if below.size else float(above.max())
-    lo = "0" if low is None and quantity == "molality" else (
-        "-inf" if low is None else f"{low:g}")
-    hi = "+inf" if high is None else f"{high:g}"
-    msg = (f"{salt.name}: {quantity} {worst:g} {unit} is outside the range "
-           f"[{lo}, {hi}] {unit} of {what}; the value is extrapolated")
+    if unit == "K":  # chemists read temperatures in °C
+        shown, u = worst - 273.15, "°C"
+        lo = "-inf" if low is None else f"{low - 273.15:.4g}"
+        hi = "+inf" if high is None else f"{high - 273.15:.4g}"
+    else:
+        shown, u = worst, unit
+        lo = "0" if low is None and quantity == "molality" else (
+            "-inf" if low is None else f"{low:g}")
+        hi = "+inf" if high is None else f"{high:g}"
+    if u == "°C" and lo == hi:
+        msg = (f"{salt.name}: {what} are for {lo} °C only; used unchanged at {shown:.4g} °C "
+               "(extrapolated)")
+    else:
+        msg = (f"{salt.name}: {quantity} {shown:.4g} {u} is outside the range {lo} to {hi} {u} "
+               f"of {what}; the value is extrapolated")
     return Caveat("model-range", msg, component=salt.name,
                   extra={"quantity": quantity, "value": worst, "low": low, "high": high,
                          "unit": unit, "model": what})
@@ -498,8 +508,7 @@ def validity(salt: PitzerSalt, b, T) -> list[Caveat]:
     out = []
     for c in (
         _range_caveat(salt, "temperature", "K", T.ravel(), salt.T_min, salt.T_max,
-                      "the Pitzer parameters (" + ", ".join(
-                          f"{s.label}: {s.T_min:g}-{s.T_max:g} K" for s in salt.sets) + ")"),
+                      "its Pitzer parameters"),
         _range_caveat(salt, "molality", "mol/kg", b.ravel(), None, salt.b_max,
                       "the Pitzer parameters"),
         _range_caveat(salt, "temperature", "K", T.ravel(), APHI_CRP94_RANGE[0],
