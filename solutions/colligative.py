@@ -316,6 +316,14 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
         Tb, dTb, cav = boiling_point(comp, P, model, terms)
         caveats.extend(cav)
 
+    above = np.isfinite(Tb) & (T > Tb + 1e-9)
+    if np.any(above):
+        i = int(np.argmax(above))
+        caveats.append(Caveat(
+            "boiling", f"{T[i] - 273.15:.4g} °C is above the boiling point at {P[i] / 1e3:.4g} kPa "
+            f"({Tb[i] - 273.15:.4g} °C): the solution boils in an open vessel; in a closed one its "
+            f"vapor pressure ({p_liq[i] / 1e3:.4g} kPa) builds up — use a rated pressure vessel",
+            None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}))
     Ms = comp.solvent.M
     osmolality = -ln_a / Ms
     nu_b = comp.particle_molality()

@@ -208,3 +208,14 @@ def test_solubility_is_flagged():
     """Sucrose above 211.4 g/100 g water (25 °C; Mohos 2010, Appendix 2) is flagged."""
     ev = evaluate(read_recipe("ingredient,amount,unit\nsucrose,75,% w/w\nwater,balance,\n"))
     assert any("exceeds its solubility" in w.message for w in ev.warnings)
+
+
+def test_above_boiling_point_warns_about_pressure():
+    """Above its boiling point the solution boils; a closed vessel builds up its vapor
+    pressure: a_w · p*(150 °C), p* = 476.16 kPa (steam tables, IAPWS-95; from memory), which
+    IF97 meets within its stated 0.02 %."""
+    res = colligative(binary("NaCl", [0.1]), 423.15)
+    cav = [c for c in res.caveats if c.kind == "boiling"]
+    assert cav and "rated pressure vessel" in cav[0].message
+    assert saturation_pressure(423.15) / 1e3 == pytest.approx(476.16, rel=2e-4)
+    assert cav[0].extra["vapor_pressure_kPa"] < 476.16
