@@ -255,3 +255,15 @@ def test_density_broadcasts_temperature_against_pressure():
     assert rho.shape == (3, 4)
     assert rho[2, 3] == pytest.approx(liquid_density(350.0, 5e7), rel=1e-14)
     assert np.all(np.diff(rho, axis=1) > 0)  # compressible: denser at higher pressure
+
+
+def test_triple_and_critical_points_end_the_liquid_vapor_curve():
+    """Common practice (and IAPWS-IF97 constants): the liquid–vapor curve runs from the triple
+    point (273.16 K, 611.657 Pa, i.e. 0.01 °C and 0.61 kPa) to the critical point (647.096 K,
+    22.064 MPa, i.e. about 374 °C and 22 MPa) and stops there."""
+    from solutions.errors import OutOfRangeError
+    from solutions.water import saturation_pressure
+    assert saturation_pressure(273.16) == pytest.approx(611.657, rel=1e-4)
+    assert saturation_pressure(647.096) == pytest.approx(22.064e6, rel=1e-6)
+    with pytest.raises(OutOfRangeError, match="647.096"):
+        saturation_pressure(650.0)
