@@ -27,7 +27,7 @@ from scipy.optimize import brentq
 from .colligative import P_ATM
 from .composition import Composition
 from .density import solution_density
-from .errors import Caveat, RecipeError, SolutionsError, TargetError
+from .errors import Caveat, RecipeError, SolutionsError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, parse_batch, resolve
@@ -140,7 +140,7 @@ class WeighOut:
         and ``final`` (volume and density at the preparation temperature)."""
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in _merge([*ev.warnings, *self.caveats])]
+        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
         kind, v = self.batch
         d["batch"] = {"kind": kind, "mass_g": v * 1e3 if kind == "mass" else None,
                       "volume_mL": v * 1e6 if kind == "volume" else None}
@@ -205,13 +205,6 @@ def weigh_out(recipe: Recipe, batch: tuple[str, float], *, T: float = 298.15,
     return WeighOut(recipe, batch, base, res, ev, solubility_caveats(res, T))
 
 
-def _merge(caveats):
-    seen, out = set(), []
-    for c in caveats:
-        if c.message not in seen:
-            seen.add(c.message)
-            out.append(c)
-    return out
 
 
 # ---------------------------------------------------------------------------- dilution
@@ -259,7 +252,7 @@ class DilutionPlan:
     def to_dict(self) -> dict:
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in _merge([*ev.warnings, *self.caveats])]
+        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
         solvent = self.stock.composition.solvent.name
         d["dilution"] = {
             "ingredient": self.row.text, "target": self.target_number, "unit": self.target_unit,

@@ -34,7 +34,7 @@ from scipy.optimize import elementwise
 
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
-from .errors import Caveat, OutOfRangeError, SolutionsError
+from .errors import Caveat, OutOfRangeError, SolutionsError, merge_caveats
 from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
                     supercooled_vapor_pressure, water_density)
@@ -339,14 +339,4 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     osmolarity = comp.particle_molarity(rho) if rho is not None else None
     return ColligativeResult(model, describe_model(model), T, P, a, p_stable, p_liq, p_pure,
                              Tf, dTf, Tb, dTb, osmolality, phi, Pi, osmolarity, below,
-                             _dedupe(caveats))
-
-
-def _dedupe(caveats):
-    seen, out = set(), []
-    for c in caveats:
-        k = (c.kind, c.message)
-        if k not in seen:
-            seen.add(k)
-            out.append(c)
-    return out
+                             merge_caveats(caveats))

@@ -103,3 +103,13 @@ class Caveat:
 
     def __str__(self) -> str:
         return self.message
+
+
+def merge_caveats(caveats) -> list[Caveat]:
+    """The caveats in order, each message once."""
+    seen, out = set(), []
+    for c in caveats:
+        if c.message not in seen:
+            seen.add(c.message)
+            out.append(c)
+    return out

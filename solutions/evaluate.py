@@ -23,7 +23,7 @@ import numpy as np
 from . import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
-from .errors import Caveat
+from .errors import Caveat, merge_caveats
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
 
 __all__ = ["Evaluation", "evaluate", "component_table", "cautions_for"]
@@ -193,17 +193,8 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     props = colligative(comp, T, P, model, rho=rho)
     dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
     from .limits import solubility_caveats
-    warnings = _merge([*res.caveats, *dres.caveats, *props.caveats, *solubility_caveats(comp)])
+    warnings = merge_caveats([*res.caveats, *dres.caveats, *props.caveats, *solubility_caveats(comp)])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings)
     ev.cautions = cautions_for(ev)
     return ev
-
-
-def _merge(caveats):
-    seen, out = set(), []
-    for c in caveats:
-        if c.message not in seen:
-            seen.add(c.message)
-            out.append(c)
-    return out

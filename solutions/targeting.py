@@ -50,7 +50,7 @@ from scipy.optimize import brentq
 
 from .colligative import P_ATM, colligative
 from .density import solution_density
-from .errors import Caveat, IngredientError, RecipeError, SolutionsError, TargetError
+from .errors import Caveat, IngredientError, RecipeError, SolutionsError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Ingredient, Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
@@ -581,7 +581,7 @@ class TargetResult:
         """``evaluate --json`` of the adjusted recipe plus recipe, varied and target."""
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in _merge([*ev.warnings, *self.caveats])]
+        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
         d["recipe"] = recipe_table(self.recipe)
         j = self._varied_index()
         res = ev.resolved
@@ -633,13 +633,6 @@ class TargetResult:
         return "\n".join(lines)
 
 
-def _merge(caveats):
-    seen, out = set(), []
-    for c in caveats:
-        if c.message not in seen:
-            seen.add(c.message)
-            out.append(c)
-    return out
 
 
 _LIMIT_WORDS = {"solubility": "solubility reached", "eutectic": "eutectic reached",
