@@ -149,6 +149,8 @@ PROPERTY_SIG = {
     "boiling_point_elevation_K": 3, "osmolality_mOsm_per_kg": 3,
     "osmolarity_mOsm_per_L": 3, "osmotic_coefficient": 3, "osmotic_pressure_kPa": 3,
 }
+#: significant figures of the composition tables (dashboard and printable report)
+COMPOSITION_SIG = 4
 #: fixed decimals for properties whose scale is bounded
 PROPERTY_DECIMALS = {"water_activity": 4}
 #: a temperature and its shift are shown to the same decimals, so that the two lines agree
@@ -219,7 +221,7 @@ _AT_T = ("water_activity", "vapor_pressure_kPa", "vapor_pressure_lowering_kPa",
 _FREEZING = ("freezing_point_C", "freezing_point_depression_K")
 _BOILING = ("boiling_point_C", "boiling_point_elevation_K")
 _DENSITY = ("density_g_per_mL", "volume_mL", "osmolarity_mOsm_per_L")
-_T_IN_MESSAGE = re.compile(r"temperature\s+([0-9]+(?:\.[0-9]+)?)\s*K")
+_T_IN_MESSAGE = re.compile(r"(?:temperature|at)\s+(-?[0-9]+(?:\.[0-9]+)?)\s*(K|°C)(?![a-zA-Z])")
 
 
 def warning_links(d: dict) -> dict[str, list[int]]:
@@ -227,8 +229,8 @@ def warning_links(d: dict) -> dict[str, list[int]]:
 
     Warnings travel as plain messages; this reads them the way a chemist would: a
     density warning concerns density, volume and osmolarity; a freezing- or boiling-
-    point warning its own rows; an activity-model warning at a stated temperature the
-    property computed nearest that temperature (the solution at T, its freezing point
+    point warning its own rows; an activity-model warning at a stated temperature (K or
+    °C) the property computed nearest that temperature (the solution at T, its freezing point
     or its boiling point); any other activity warning every activity-based property.
     A warning that matches nothing is still listed, just not linked.
 
@@ -246,6 +248,8 @@ def warning_links(d: dict) -> dict[str, list[int]]:
         keys: tuple[str, ...] = ()
         if "ice is the stable phase" in low:
             keys = ("vapor_pressure_kPa",)
+        elif "above the boiling point" in low:
+            keys = ("vapor_pressure_kPa", "vapor_pressure_lowering_kPa")
         elif "volatile" in low:
             keys = _BOILING
         elif "density" in low:
@@ -255,7 +259,7 @@ def warning_links(d: dict) -> dict[str, list[int]]:
         elif "boiling point" in low or "k_b" in low:
             keys = _BOILING
         elif (m := _T_IN_MESSAGE.search(msg)):
-            t_c = float(m.group(1)) - 273.15
+            t_c = float(m.group(1)) - (273.15 if m.group(2) == "K" else 0.0)
             near = [(abs(t_c - v), ks) for v, ks in targets.values()
                     if v is not None and math.isfinite(v)]
             keys = min(near, key=lambda x: x[0])[1] if near else _AT_T + _FREEZING + _BOILING
@@ -347,18 +351,24 @@ def html_report(d: dict, charts: dict | None = None) -> str:
             out.append(f"<tr><td>{e(r.get('ingredient', ''))}</td><td>{e(r.get('amount', ''))}"
                        f"</td><td>{e(r.get('unit', ''))}</td></tr>")
         out.append("</table>")
-    out.append("<h2>Composition</h2><table><tr><th>Ingredient</th><th>To weigh [g]</th>")
+    out.append(f"<h2>Composition</h2><p class='meta'>{COMPOSITION_SIG} significant figures; "
+               "masses as weighed (a hydrate with its water).</p>"
+               "<table><tr><th>Ingredient</th><th>To weigh [g]</th>")
     out.extend(f"<th>{e(lab)}{' [' + e(u) + ']' if u else ''}</th>" for _, lab, u in BASIS_LABELS)
     out.append("</tr>")
     for c in d["components"]:
-        out.append(f"<tr><td>{e(c['ingredient'])}</td><td class='n'>{e(fmt(c.get('weigh_g')))}</td>")
-        out.extend(f"<td class='n'>{e(fmt(c.get(k)))}</td>" for k, _, _ in BASIS_LABELS)
+        out.append(f"<tr><td>{e(c['ingredient'])}</td>"
+                   f"<td class='n'>{e(fmt(c.get('weigh_g'), COMPOSITION_SIG))}</td>")
+        out.extend(f"<td class='n'>{e(fmt(c.get(k), COMPOSITION_SIG))}</td>"
+                   for k, _, _ in BASIS_LABELS)
         out.append("</tr>")
     out.append("</table>")
     links = warning_links(d)
     out.append("<h2>Properties</h2><table><tr><th>Property</th><th>Value</th><th>Unit</th>"
                "<th>Model</th><th>Dilute ideal</th><th>Warnings</th></tr>")
     for key, lab, unit in PROPERTY_LABELS:
+        if key == "boiling_point_C":
+            lab = f"{lab} at {fmt(s.get('pressure_kPa'), 6)} kPa"
         w = ", ".join(str(i) for i in links.get(key, []))
         out.append(f"<tr><td>{e(lab)}</td><td class='n'>{e(property_text(s, key))}</td>"
                    f"<td>{e(unit)}</td><td>{e(property_model(s, key))}</td>"

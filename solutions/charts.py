@@ -1,0 +1,279 @@
+"""Charts of a recipe's colligative behaviour: curve data from the library, Altair charts.
+
+Two kinds of function, kept apart so the dashboard can cache the data and the report can
+re-use the charts:
+
+* ``*_curve`` functions call the library once, vectorized over every point of a curve,
+  and return a :class:`Curve` (a tidy DataFrame in display units plus the caveats the
+  library raised along the curve);
+* ``*_chart`` functions are pure: from curve data and a few numbers of the evaluation
+  they build an ``altair`` chart with labelled axes (units) and tooltips.
+
+Charts:
+
+(a) freezing and boiling point against a concentration factor 0–2× of the recipe's
+    solutes in the same solvent (:meth:`Composition.concentrated`), the recipe marked;
+(b) vapor pressure of the pure solvent and of the solution against temperature, with
+    the external pressure as a horizontal rule: each curve crosses it at its boiling
+    point;
+(c) the same curves as ln p against 1000/T (the Clausius–Clapeyron view, nearly
+    straight lines whose slope is −ΔH_vap/R).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import altair as alt
+import numpy as np
+import pandas as pd
+
+from .colligative import P_ATM, colligative, vapor_pressure_pure
+from .composition import Composition
+
+__all__ = ["Curve", "FACTORS", "concentration_curve", "vapor_pressure_curve",
+           "vapor_pressure_range", "solution_vapor_pressure", "concentration_chart",
+           "vapor_pressure_chart", "clausius_clapeyron_chart", "COLORS"]
+
+#: concentration factors of chart (a): 0 (pure solvent) to 2× the recipe's solutes
+FACTORS = np.linspace(0.0, 2.0, 41)
+
+#: the dashboard's own palette
+COLORS = {"solution": "#9c3d1f", "solvent": "#2b6a8a", "dilute": "#8a8a72",
+          "rule": "#555555", "mark": "#111111"}
+
+_MODEL_LABEL = {"nonideal": "non-ideal model", "ideal": "ideal solution",
+                "dilute": "dilute ideal"}
+
+
+@dataclass(frozen=True)
+class Curve:
+    """Curve data in display units and the library's caveats along it (messages)."""
+
+    data: pd.DataFrame
+    notes: tuple[str, ...] = field(default=())
+
+
+def _notes(caveats) -> tuple[str, ...]:
+    return tuple(dict.fromkeys(c.message for c in caveats))
+
+
+# ------------------------------------------------------------------ curve data
+def concentration_curve(comp: Composition, T: float, P: float, model: str,
+                        factors=FACTORS) -> Curve:
+    """Freezing point (at 101.325 kPa) and boiling point (at ``P``) against concentration.
+
+    comp : the recipe's composition (N = 1)
+    T : temperature of the solution [K] (enters only the properties at T, not shown)
+    P : external pressure [Pa] for the boiling point
+    model : activity model; the dilute-ideal curve is added beside any other model
+    factors : multiples of the recipe's solutes in the same solvent mass [1]
+
+    Returns columns ``factor``, ``property`` ("Freezing point" / "Boiling point"),
+    ``model`` (label), ``T_C`` [°C] and ``shift_K`` (depression / elevation) [K]; points
+    the library cannot follow (NaN, with a caveat) are left out.
+    """
+    comps = comp.concentrated(factors)
+    frames, caveats = [], []
+    models = [model] + (["dilute"] if model != "dilute" else [])
+    for m in models:
+        r = colligative(comps, T, P, m)
+        caveats.extend(r.caveats)
+        label = _MODEL_LABEL.get(r.model, r.model)
+        for prop, t, dt in (("Freezing point", r.freezing_point, r.freezing_point_depression),
+                            ("Boiling point", r.boiling_point, r.boiling_point_elevation)):
+            frames.append(pd.DataFrame({"factor": np.asarray(factors, float), "property": prop,
+                                        "model": label, "T_C": np.asarray(t) - 273.15,
+                                        "shift_K": np.asarray(dt)}))
+    df = pd.concat(frames, ignore_index=True)
+    return Curve(df[np.isfinite(df["T_C"])].reset_index(drop=True), _notes(caveats))
+
+
+def solution_vapor_pressure(comp: Composition, T, model: str = "nonideal"):
+    """Vapor pressure of the solvent over the liquid solution [Pa], and caveats.
+
+    comp : one composition (N = 1), evaluated at every temperature of ``T``
+    T : temperatures [K], shape (n,)
+    model : activity model
+
+    The library's ``vapor_pressure_liquid`` of :func:`solutions.colligative.colligative`
+    (p = a(T) · p*(T)) for n copies of the composition at once; over the liquid even
+    below the freezing point, as a vapor-pressure curve is drawn. Valid where the
+    activity model is (its caveats are returned) and for the solvent's liquid range.
+    """
+    T = np.atleast_1d(np.asarray(T, dtype=float))
+    r = colligative(comp.concentrated(np.ones(T.shape[0])), T, P_ATM, model,
+                    with_boiling=False, with_freezing=False)
+    return np.asarray(r.vapor_pressure_liquid), list(r.caveats)
+
+
+def vapor_pressure_range(s: dict) -> tuple[float, float]:
+    """Temperature span [K] for charts (b) and (c) from an evaluation's ``solution`` dict.
+
+    From 0 °C, or 5 K below the solution temperature if that is colder (never below
+    −40 °C: the curves are of the liquid, supercooled below its freezing point), to 15 K
+    above the solution's boiling point at the external pressure, or 10 K above the
+    solution temperature if that is hotter (never above 640 K, short of the critical
+    point).
+    """
+    T = s["temperature_C"] + 273.15
+    lo = max(min(273.15, T - 5.0), 233.15)
+    Tb = s.get("boiling_point_C")
+    hi = max((Tb + 273.15 + 15.0) if Tb is not None else T + 40.0, T + 10.0)
+    return lo, min(hi, 640.0)
+
+
+def vapor_pressure_curve(comp: Composition, model: str, T_lo: float, T_hi: float,
+                         n: int = 81) -> Curve:
+    """Vapor pressure of the pure solvent and of the solution from ``T_lo`` to ``T_hi`` [K].
+
+    Returns columns ``series`` (label), ``T_C`` [°C], ``p_kPa`` [kPa], ``inv_T`` = 1000/T
+    [1/K × 1000] and ``ln_p`` = ln(p / kPa), for charts (b) and (c).
+    """
+    T = np.linspace(T_lo, T_hi, n)
+    p_pure, cav_pure = vapor_pressure_pure(comp, T)
+    p_sol, cav_sol = solution_vapor_pressure(comp, T, model)
+    solvent = comp.solvent.name.lower()
+    label_sol = f"solution ({_MODEL_LABEL.get(model, model)})"
+    rows = []
+    for label, p in ((f"pure {solvent}", np.asarray(p_pure)), (label_sol, np.asarray(p_sol))):
+        rows.append(pd.DataFrame({"series": label, "T_C": T - 273.15, "p_kPa": p / 1e3,
+                                  "inv_T": 1000.0 / T, "ln_p": np.log(p / 1e3)}))
+    df = pd.concat(rows, ignore_index=True)
+    df = df[np.isfinite(df["p_kPa"]) & (df["p_kPa"] > 0)].reset_index(drop=True)
+    return Curve(df, _notes([*cav_pure, *cav_sol]))
+
+
+# ------------------------------------------------------------------ charts
+def _width(width):
+    return "container" if width is None else width
+
+
+def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float | None,
+                        P_kPa: float = 101.325, width: int | None = 300,
+                        height: int = 260) -> alt.HConcatChart:
+    """Chart (a): freezing point and boiling point against the concentration factor.
+
+    freezing_C, boiling_C : the recipe's own values [°C], marked at factor 1.
+    P_kPa : external pressure of the boiling points [kPa], for the title.
+    """
+    df = curve.data
+    models = list(dict.fromkeys(df["model"]))
+    dash_range = [[1, 0], [5, 3]][:len(models)]
+    color_range = [COLORS["solution"], COLORS["dilute"]][:len(models)]
+    panels = []
+    for prop, value, ttl in (("Freezing point", freezing_C, "Freezing point at 101.325 kPa"),
+                             ("Boiling point", boiling_C, f"Boiling point at {P_kPa:g} kPa")):
+        sub = df[df["property"] == prop]
+        shift = "depression" if prop.startswith("Freezing") else "elevation"
+        base = alt.Chart(sub).encode(
+            x=alt.X("factor:Q", title="Concentration factor (× the recipe's solutes)",
+                    scale=alt.Scale(domain=[0, 2])),
+            y=alt.Y("T_C:Q", title=f"{prop} (°C)", scale=alt.Scale(zero=False)),
+            color=alt.Color("model:N", title="Model",
+                            scale=alt.Scale(domain=models, range=color_range)),
+            strokeDash=alt.StrokeDash("model:N", title="Model",
+                                      scale=alt.Scale(domain=models, range=dash_range)),
+            tooltip=[alt.Tooltip("factor:Q", title="factor (×)", format=".2f"),
+                     alt.Tooltip("model:N", title="model"),
+                     alt.Tooltip("T_C:Q", title=f"{prop.lower()} (°C)", format=".3f"),
+                     alt.Tooltip("shift_K:Q", title=f"{shift} (K)", format=".3f")])
+        # invisible points carry the tooltips; the legend shows the lines only
+        layer = base.mark_line(strokeWidth=2) + base.mark_point(size=40, opacity=0).encode(
+            color=alt.value(COLORS["mark"]), strokeDash=alt.value([1, 0]))
+        if value is not None:
+            mark = pd.DataFrame({"factor": [1.0], "T_C": [value], "label": ["this recipe"]})
+            pt = alt.Chart(mark).encode(
+                x="factor:Q", y="T_C:Q",
+                tooltip=[alt.Tooltip("label:N", title=""),
+                         alt.Tooltip("T_C:Q", title=f"{prop.lower()} (°C)", format=".3f")])
+            layer = layer + pt.mark_point(size=110, shape="diamond", filled=True,
+                                          color=COLORS["mark"]) \
+                + pt.mark_text(dx=8, dy=-10, align="left", fontSize=11,
+                               color=COLORS["mark"]).encode(text="label:N")
+        panels.append(layer.properties(title=ttl, width=_width(width), height=height))
+    return alt.hconcat(*panels).resolve_scale(y="independent")
+
+
+def _boiling_marks(boiling: dict[str, float], P_kPa: float, x: str, y: str):
+    marks = pd.DataFrame({"series": list(boiling), "T_C": list(boiling.values()),
+                          "p_kPa": P_kPa})
+    marks["inv_T"] = 1000.0 / (marks["T_C"] + 273.15)
+    marks["ln_p"] = np.log(marks["p_kPa"])
+    marks["label"] = [f"boils at {t:.2f} °C" for t in marks["T_C"]]
+    return alt.Chart(marks).encode(
+        x=f"{x}:Q", y=f"{y}:Q",
+        tooltip=[alt.Tooltip("series:N", title=""), alt.Tooltip("label:N", title="")])
+
+
+def _series_scale(df):
+    series = list(dict.fromkeys(df["series"]))
+    return alt.Scale(domain=series, range=[COLORS["solvent"], COLORS["solution"]][:len(series)])
+
+
+def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] | None = None,
+                         at_T: tuple[float, float] | None = None, at_note: str = "",
+                         width: int | None = None, height: int = 300) -> alt.LayerChart:
+    """Chart (b): vapor pressure against temperature, external pressure as a rule.
+
+    P_kPa : external pressure [kPa]
+    boiling : ``{series label: boiling point °C}`` to mark where each curve meets the rule
+    at_T : (temperature °C, vapor pressure kPa) of the solution as evaluated, marked
+    at_note : words added to that mark's label (e.g. "supercooled liquid")
+    """
+    df = curve.data
+    base = alt.Chart(df).encode(
+        x=alt.X("T_C:Q", title="Temperature (°C)", scale=alt.Scale(zero=False, nice=False)),
+        y=alt.Y("p_kPa:Q", title="Vapor pressure of the solvent (kPa)"),
+        color=alt.Color("series:N", title="", scale=_series_scale(df),
+                        legend=alt.Legend(orient="top-left")),
+        tooltip=[alt.Tooltip("series:N", title=""),
+                 alt.Tooltip("T_C:Q", title="temperature (°C)", format=".1f"),
+                 alt.Tooltip("p_kPa:Q", title="vapor pressure (kPa)", format=".4g")])
+    rule_df = pd.DataFrame({"p_kPa": [P_kPa], "label": [f"external pressure {P_kPa:g} kPa"]})
+    rule = alt.Chart(rule_df).encode(y="p_kPa:Q", tooltip=alt.Tooltip("label:N", title=""))
+    layer = base.mark_line(strokeWidth=2) \
+        + rule.mark_rule(strokeDash=[6, 4], color=COLORS["rule"]) \
+        + rule.mark_text(align="left", dx=4, dy=-7, x=4, fontSize=11,
+                         color=COLORS["rule"]).encode(text="label:N")
+    if boiling:
+        bm = _boiling_marks(boiling, P_kPa, "T_C", "p_kPa")
+        layer = layer + bm.mark_point(size=80, filled=True, color=COLORS["mark"])
+    if at_T is not None and all(v is not None for v in at_T):
+        here = pd.DataFrame({"T_C": [at_T[0]], "p_kPa": [at_T[1]],
+                             "label": [f"at {at_T[0]:g} °C{f' ({at_note})' if at_note else ''}: "
+                                       f"{at_T[1]:.4g} kPa"]})
+        hc = alt.Chart(here).encode(x="T_C:Q", y="p_kPa:Q",
+                                    tooltip=alt.Tooltip("label:N", title="this solution"))
+        layer = layer + hc.mark_point(size=110, shape="diamond", filled=True,
+                                      color=COLORS["mark"]) \
+            + hc.mark_text(align="left", dx=8, dy=-8, fontSize=11,
+                           color=COLORS["mark"]).encode(text="label:N")
+    return layer.properties(title="Vapor pressure and boiling", width=_width(width),
+                            height=height)
+
+
+def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
+                             boiling: dict[str, float] | None = None,
+                             width: int | None = None, height: int = 300) -> alt.LayerChart:
+    """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
+    df = curve.data
+    base = alt.Chart(df).encode(
+        x=alt.X("inv_T:Q", title="1000 / T (1/K)", scale=alt.Scale(zero=False, nice=False)),
+        y=alt.Y("ln_p:Q", title="ln(p / kPa)", scale=alt.Scale(zero=False)),
+        color=alt.Color("series:N", title="", scale=_series_scale(df),
+                        legend=alt.Legend(orient="bottom-left")),
+        tooltip=[alt.Tooltip("series:N", title=""),
+                 alt.Tooltip("T_C:Q", title="temperature (°C)", format=".1f"),
+                 alt.Tooltip("inv_T:Q", title="1000/T (1/K)", format=".4f"),
+                 alt.Tooltip("p_kPa:Q", title="vapor pressure (kPa)", format=".4g"),
+                 alt.Tooltip("ln_p:Q", title="ln(p / kPa)", format=".4f")])
+    rule_df = pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
+                            "label": [f"external pressure {P_kPa:g} kPa"]})
+    rule = alt.Chart(rule_df).encode(y="ln_p:Q", tooltip=alt.Tooltip("label:N", title=""))
+    layer = base.mark_line(strokeWidth=2) \
+        + rule.mark_rule(strokeDash=[6, 4], color=COLORS["rule"])
+    if boiling:
+        bm = _boiling_marks(boiling, P_kPa, "inv_T", "ln_p")
+        layer = layer + bm.mark_point(size=80, filled=True, color=COLORS["mark"])
+    return layer.properties(title="Clausius–Clapeyron view", width=_width(width),
+                            height=height)

@@ -1,0 +1,207 @@
+"""The dashboard's tables: the recipe table's columns, reading pasted or uploaded blocks
+into it, and the frames of text the results section shows.
+
+Every number shown is formatted from :meth:`Evaluation.to_dict` with the display policy
+of :mod:`solutions.report`, so the page, the CSV and the printable report agree.
+"""
+from __future__ import annotations
+
+import csv
+import io
+from pathlib import Path
+
+import pandas as pd
+
+from ..recipe import _find_columns
+from ..report import (COMPOSITION_SIG, PROPERTY_LABELS, dilute_text, fmt, property_model,
+                      property_text, warning_links)
+
+__all__ = ["EDITOR_COLUMNS", "COLUMN_HELP", "blank_table", "clean_table", "frame_from_text",
+           "frame_from_upload", "demo_recipes", "BASES", "DEFAULT_BASES", "composition_frame",
+           "property_frame", "HEADLINE", "headline", "sort_cautions"]
+
+#: the recipe table's columns, in the order a spreadsheet block is pasted
+EDITOR_COLUMNS = ["ingredient", "amount", "unit", "formula", "molar_mass", "density", "ions",
+                  "assay_%"]
+COLUMN_HELP = {
+    "ingredient": ("Ingredient", "A name from the ingredient library, or your own with a "
+                   "formula or molar mass in the optional columns"),
+    "amount": ("Amount", "A number, or for the solvent 'q.s. to 500' or 'balance'"),
+    "unit": ("Unit", "g, mg, kg, mL, L, mol, mmol, % w/w, % w/v, % v/v, ppm, mg/mL, g/L, "
+             "M, mM, mol/kg"),
+    "formula": ("Formula", "Optional: defines or overrides the ingredient for this recipe"),
+    "molar_mass": ("Molar mass (g/mol)", "Optional: instead of a formula"),
+    "density": ("Pure density (g/mL)", "Optional: for a liquid measured by volume"),
+    "ions": ("Ions", "Optional: particles per formula unit (van 't Hoff factor), e.g. 2 "
+             "for NaCl"),
+    "assay_%": ("Assay (%)", "Optional: purity of what is weighed"),
+}
+
+
+def blank_table(rows: int = 1) -> pd.DataFrame:
+    """An empty recipe table with ``rows`` blank rows."""
+    return pd.DataFrame([{c: "" for c in EDITOR_COLUMNS} for _ in range(rows)],
+                        columns=EDITOR_COLUMNS)
+
+
+def _text(v) -> str:
+    if v is None:
+        return ""
+    if isinstance(v, float):
+        if v != v:  # NaN from an empty spreadsheet cell
+            return ""
+        return f"{v:g}"
+    return str(v).strip()
+
+
+def clean_table(df: pd.DataFrame) -> pd.DataFrame:
+    """The editor's frame with every recipe column present, as text, on a plain index."""
+    out = pd.DataFrame(index=range(len(df)))
+    src = df.reset_index(drop=True)
+    for c in EDITOR_COLUMNS:
+        out[c] = [_text(v) for v in src[c]] if c in src.columns else ""
+    return out
+
+
+def _to_editor(df: pd.DataFrame) -> tuple[pd.DataFrame, list[str]]:
+    """Map a table with its own header onto the editor's columns; notes on dropped ones."""
+    found = _find_columns(df.columns)
+    canon = {"molar_mass": "molar_mass", "assay": "assay_%"}
+    rename = {col: canon.get(k, k) for k, col in found.items()}
+    dropped = [str(c) for c in df.columns if c not in rename]
+    notes = [f"column(s) {', '.join(repr(c) for c in dropped)} not used"] if dropped else []
+    return clean_table(df.rename(columns=rename)), notes
+
+
+def frame_from_text(text: str, *, decimal_comma: bool = False) -> tuple[pd.DataFrame, list[str]]:
+    """Read a pasted block (tab-separated from a spreadsheet, or CSV) into the editor.
+
+    A first line naming the columns (ingredient, amount, unit, ...) is used as the header;
+    without one the columns are taken in the editor's order. With ``decimal_comma`` a
+    comma-separated block is read as semicolon-separated, as such spreadsheets export.
+    """
+    lines = [ln for ln in text.replace("\r\n", "\n").replace("\r", "\n").split("\n")
+             if ln.strip() and not ln.lstrip().startswith("#")]
+    if not lines:
+        return blank_table(), ["nothing to read"]
+    sample = lines[0]
+    sep = "\t" if "\t" in sample else (";" if (";" in sample or decimal_comma) else ",")
+    rows = list(csv.reader(io.StringIO("\n".join(lines)), delimiter=sep))
+    found = _find_columns([c.strip() for c in rows[0]])
+    if "ingredient" in found and "amount" in found:
+        width = len(rows[0])
+        body = [r + [""] * (width - len(r)) for r in rows[1:]]
+        return _to_editor(pd.DataFrame([r[:width] for r in body],
+                                       columns=[c.strip() for c in rows[0]]))
+    notes = []
+    width = len(EDITOR_COLUMNS)
+    if any(len(r) > width for r in rows):
+        notes.append(f"cells beyond the {width} recipe columns were left out")
+    body = [(r + [""] * width)[:width] for r in rows]
+    return clean_table(pd.DataFrame(body, columns=EDITOR_COLUMNS)), notes
+
+
+def frame_from_upload(name: str, data: bytes, *, decimal_comma: bool = False
+                      ) -> tuple[pd.DataFrame, list[str]]:
+    """Read an uploaded CSV/TSV/TXT or XLSX recipe file into the editor."""
+    if name.lower().endswith((".xlsx", ".xls")):
+        df = pd.read_excel(io.BytesIO(data), dtype=str).fillna("")
+        return _to_editor(df)
+    return frame_from_text(data.decode("utf-8-sig"), decimal_comma=decimal_comma)
+
+
+def demo_recipes(folder: str | Path) -> dict[str, Path]:
+    """The demo recipes: ``{name: path}`` of ``folder/*.csv``, sorted by name."""
+    return {p.stem: p for p in sorted(Path(folder).glob("*.csv"))}
+
+
+# ------------------------------------------------------------------ results
+#: bases the user can tick: (component key, column header with unit)
+BASES = {
+    "weigh_g": "To weigh (g)",
+    "mass_g": "Mass (g)",
+    "amount_mol": "Amount (mol)",
+    "mass_fraction": "Mass fraction (g/g)",
+    "mole_fraction": "Mole fraction (mol/mol)",
+    "molality_mol_per_kg": "Molality (mol/kg solvent)",
+    "molarity_mol_per_L": "Molarity (mol/L)",
+    "mass_per_volume_g_per_L": "Mass/volume (g/L)",
+    "ppm": "ppm w/w (mg/kg)",
+    "percent_w_v": "% w/v (g/100 mL)",
+}
+DEFAULT_BASES = ["weigh_g", "mass_fraction", "molality_mol_per_kg", "molarity_mol_per_L",
+                 "percent_w_v"]
+
+
+def composition_frame(d: dict, bases: list[str]) -> pd.DataFrame:
+    """One row per component, one column per ticked basis; text with 4 significant figures."""
+    rows = []
+    for c in d["components"]:
+        name = c["ingredient"]
+        if c.get("library_name") and c["library_name"].lower() != name.lower():
+            name = f"{name} ({c['library_name']})"
+        row = {"Ingredient": name}
+        for k in bases:
+            row[BASES[k]] = fmt(c.get(k), COMPOSITION_SIG)
+        rows.append(row)
+    return pd.DataFrame(rows, columns=["Ingredient", *(BASES[k] for k in bases)])
+
+
+def property_frame(d: dict) -> pd.DataFrame:
+    """Every solution property: value, unit, model, dilute-ideal figure, linked warnings."""
+    s = d["solution"]
+    links = warning_links(d)
+    rows = []
+    for key, label, unit in PROPERTY_LABELS:
+        if key == "boiling_point_C":
+            label = f"Boiling point at {s['pressure_kPa']:g} kPa"
+        w = links.get(key, [])
+        rows.append({"Property": label, "Value": property_text(s, key), "Unit": unit or "–",
+                     "Model": property_model(s, key), "Dilute ideal": dilute_text(s, key),
+                     "Warnings": ("⚠ " + ", ".join(map(str, w))) if w else ""})
+    return pd.DataFrame(rows)
+
+
+#: the properties shown large at the top of the results: (key, label, unit)
+HEADLINE = [("freezing_point_C", "Freezing point", "°C"),
+            ("boiling_point_C", "Boiling point", "°C"),
+            ("osmolality_mOsm_per_kg", "Osmolality", "mOsm/kg"),
+            ("water_activity", "Water activity", "")]
+
+
+def headline(d: dict) -> list[tuple[str, str, str]]:
+    """(label with unit, value text, help text) of the headline properties."""
+    s = d["solution"]
+    out = []
+    for key, label, unit in HEADLINE:
+        dil = dilute_text(s, key)
+        helptext = f"Model: {property_model(s, key)}."
+        if key == "boiling_point_C":
+            helptext = f"At {s['pressure_kPa']:g} kPa. " + helptext
+        if key == "freezing_point_C":
+            helptext = "At 101.325 kPa. " + helptext
+        if dil:
+            helptext += f" Dilute ideal: {dil}{(' ' + unit) if unit else ''}."
+        out.append((f"{label} ({unit})" if unit else label, property_text(s, key), helptext))
+    return out
+
+
+def sort_cautions(d: dict) -> dict[str, list[str]]:
+    """The evaluation's cautions, grouped by where the page shows them.
+
+    ``ingredients`` (a named ingredient's hazard, beside the recipe), ``results``
+    (tonicity and injectables, freeze protection, anything else) and ``vessels``
+    (heating closed vessels, beside the vapor-pressure chart). Every caution lands in
+    exactly one group.
+    """
+    names = {str(c.get("library_name") or "").lower() for c in d.get("components", [])}
+    out: dict[str, list[str]] = {"ingredients": [], "results": [], "vessels": []}
+    for msg in d.get("cautions", []):
+        head = msg.split(":", 1)[0].strip().lower()
+        if head in names:
+            out["ingredients"].append(msg)
+        elif "sealed vessel" in msg or "closed or sealed" in msg:
+            out["vessels"].append(msg)
+        else:
+            out["results"].append(msg)
+    return out
