@@ -287,17 +287,17 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     bs = terms.molalities(comp)
     caveats: list[Caveat] = []
     ln_a = terms.ln_a(bs, T)
-    caveats.extend(terms.caveats(bs, T))
+    caveats.extend(c.tagged("activity") for c in terms.caveats(bs, T))
     a = np.exp(ln_a)
     p_pure, cav = vapor_pressure_pure(comp, T)
-    caveats.extend(cav)
+    caveats.extend(c.tagged("vapor") for c in cav)
     p_liq = a * p_pure
 
     nan = np.full(N, np.nan)
     Tf, dTf, below = nan, nan, np.zeros(N, bool)
     if with_freezing:
         Tf, dTf, cav = freezing_point(comp, model, terms)
-        caveats.extend(cav)
+        caveats.extend(c.tagged("freezing") for c in cav)
         below = np.isfinite(Tf) & (T < Tf - 1e-9)
     p_stable = p_liq.copy()
     if comp.solvent.is_water and np.any(below):
@@ -310,11 +310,11 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             f"is over ice ({p_ice[i] / 1e3:.4g} kPa); over the supercooled liquid it would be "
             f"{p_liq[i] / 1e3:.4g} kPa", None,
             {"vapor_pressure_ice_kPa": float(p_ice[i] / 1e3),
-             "vapor_pressure_supercooled_kPa": float(p_liq[i] / 1e3)}))
+             "vapor_pressure_supercooled_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
     Tb, dTb = nan, nan
     if with_boiling:
         Tb, dTb, cav = boiling_point(comp, P, model, terms)
-        caveats.extend(cav)
+        caveats.extend(c.tagged("boiling") for c in cav)
 
     above = np.isfinite(Tb) & (T > Tb + 1e-9)
     if np.any(above):
@@ -323,7 +323,7 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             "boiling", f"{T[i] - 273.15:.4g} °C is above the boiling point at {P[i] / 1e3:.4g} kPa "
             f"({Tb[i] - 273.15:.4g} °C): the solution boils in an open vessel; in a closed one its "
             f"vapor pressure ({p_liq[i] / 1e3:.4g} kPa) builds up — use a rated pressure vessel",
-            None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}))
+            None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
     Ms = comp.solvent.M
     osmolality = -ln_a / Ms
     nu_b = comp.particle_molality()

@@ -7,7 +7,7 @@ command line and the dashboard can show *where* the problem is.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 
 class SolutionsError(Exception):
@@ -93,13 +93,25 @@ class Caveat:
     """A warning that travels with a result: what, about which component, why.
 
     ``kind`` is a short machine-readable tag (``"model-range"``, ``"solubility"``,
-    ``"eutectic"``, ``"ideal-fallback"``, ``"ice"``, ``"safety"`` ...).
+    ``"eutectic"``, ``"ideal-fallback"``, ``"ice"``, ``"boiling"`` ...); ``about`` says which
+    results it bears on: ``"density"`` (density, volume, molarity), ``"activity"``
+    (properties at the solution temperature), ``"freezing"``, ``"boiling"``, ``"vapor"``
+    (vapor pressure) or ``"recipe"``; empty when it bears on everything.
     """
 
     kind: str
     message: str
     component: str | None = None
     extra: dict = field(default_factory=dict, compare=False, hash=False)
+    about: str = ""
+
+    def tagged(self, about: str) -> "Caveat":
+        """This caveat with ``about`` set, unless it already says what it is about."""
+        return self if self.about else replace(self, about=about)
+
+    def to_dict(self) -> dict:
+        return {"message": self.message, "kind": self.kind, "component": self.component,
+                "about": self.about}
 
     def __str__(self) -> str:
         return self.message

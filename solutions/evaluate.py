@@ -26,7 +26,7 @@ from .density import solution_density
 from .errors import Caveat, merge_caveats
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
 
-__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for"]
+__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows"]
 
 
 @dataclass
@@ -40,7 +40,7 @@ class Evaluation:
     props: ColligativeResult
     dilute: ColligativeResult
     warnings: list[Caveat] = field(default_factory=list)
-    cautions: list[str] = field(default_factory=list)
+    cautions: list[tuple[str, str]] = field(default_factory=list)  # (tag, message)
 
     @property
     def composition(self):
@@ -105,8 +105,11 @@ class Evaluation:
                            "model": self.model, "volumes_read_at_C": r.T_prep - 273.15},
             "components": self.components(),
             "solution": self.solution(),
+            "recipe": recipe_rows(r.recipe),
             "warnings": [w.message for w in self.warnings],
-            "cautions": list(self.cautions),
+            "warnings_detail": [w.to_dict() for w in self.warnings],
+            "cautions": [msg for _, msg in self.cautions],
+            "cautions_detail": [{"tag": tag, "message": msg} for tag, msg in self.cautions],
         }
 
 
@@ -152,29 +155,45 @@ def component_table(res: ResolvedRecipe, rho: float) -> list[dict]:
     return out
 
 
-def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[str]:
-    """The usual cautions for what this recipe's numbers could be used for."""
+def recipe_rows(recipe: Recipe) -> list[dict]:
+    """The recipe's rows as written: ingredient, amount, unit (q.s./balance spelled out)."""
+    out = []
+    for r in recipe.rows:
+        b = r.amount.basis.value
+        if b == "balance":
+            amount, unit = "balance", ""
+        elif b.startswith("q.s."):
+            amount, unit = f"q.s. to {r.number:g}", r.amount.text
+        else:
+            amount, unit = r.number, r.amount.text
+        out.append({"row": r.row, "ingredient": r.text, "amount": amount, "unit": unit})
+    return out
+
+
+def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tuple[str, str]]:
+    """The usual cautions for what this recipe's numbers could be used for, each with a tag
+    saying what it is about: ``ingredient``, ``tonicity``, ``freezing`` or ``vessel``."""
     res = ev_or_res.resolved if isinstance(ev_or_res, Evaluation) else ev_or_res
     props = props or (ev_or_res.props if isinstance(ev_or_res, Evaluation) else None)
     out = []
     for ing in {r.ingredient.key: r.ingredient for r in res.recipe.rows}.values():
         if ing.caution:
-            out.append(f"{ing.name}: {ing.caution}.")
+            out.append(("ingredient", f"{ing.name}: {ing.caution}."))
     comp = res.composition
     if comp.solvent.is_water:
-        out.append("Osmolality and tonicity here are model estimates. Anything to be injected, "
+        out.append(("tonicity", "Osmolality and tonicity here are model estimates. Anything to be injected, "
                    "infused or put in the eye must be confirmed by measurement (e.g. "
                    "freezing-point osmometry) and meet your pharmacopoeia and licensed "
-                   "practice; sterility, pH and particulates are outside this tool.")
+                   "practice; sterility, pH and particulates are outside this tool."))
     if props is not None:
         dT = float(np.asarray(props.freezing_point_depression).reshape(-1)[0])
         if math.isfinite(dT) and dT > 1.0:
-            out.append("Freezing points are estimates for the liquid–ice equilibrium. For freeze "
+            out.append(("freezing", "Freezing points are estimates for the liquid–ice equilibrium. For freeze "
                        "protection, keep a margin, confirm with a measured freezing point, and "
                        "follow the equipment maker's and local codes' requirements; slush can "
-                       "form above the stated point in real systems.")
-    out.append("Vapor pressure rises steeply with temperature: never heat a closed or sealed "
-               "vessel unless it is rated and fitted with pressure relief.")
+                       "form above the stated point in real systems."))
+    out.append(("vessel", "Vapor pressure rises steeply with temperature: never heat a closed or "
+                          "sealed vessel unless it is rated and fitted with pressure relief."))
     return out
 
 
@@ -193,7 +212,9 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     props = colligative(comp, T, P, model, rho=rho)
     dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
     from .limits import solubility_caveats
-    warnings = merge_caveats([*res.caveats, *dres.caveats, *props.caveats, *solubility_caveats(comp)])
+    warnings = merge_caveats([*(c.tagged("density") for c in (*res.caveats, *dres.caveats)),
+                              *props.caveats,
+                              *(c.tagged("recipe") for c in solubility_caveats(comp))])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings)
     ev.cautions = cautions_for(ev)

@@ -34,7 +34,8 @@ from .ingredients import Ingredient, Library, default_library, ingredient_from_r
 from .units import Amount, Basis, is_solvent_rule, parse_unit
 from .water import water_density
 
-__all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP"]
+__all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
+           "find_columns"]
 
 T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
 
@@ -88,7 +89,9 @@ class Recipe:
 
 
 # ------------------------------------------------------------------------------ reading
-def _find_columns(columns: Iterable[str]) -> dict[str, str]:
+def find_columns(columns: Iterable[str]) -> dict[str, str]:
+    """Map the canonical column names (ingredient, amount, unit, formula, molar_mass, density,
+    ions, hydrate_water, assay) to the columns of a table as a chemist headed them."""
     found = {}
     for col in columns:
         c = str(col).strip().lower()
@@ -165,7 +168,7 @@ def read_recipe(source, library: Library | None = None, *, decimal: str = ".",
     """
     lib = library or default_library()
     df = _table(source, decimal)
-    cols = _find_columns(df.columns)
+    cols = find_columns(df.columns)
     for need in ("ingredient", "amount"):
         if need not in cols:
             raise RecipeError(f"the recipe has no {need!r} column (columns found: "

@@ -240,6 +240,19 @@ def warning_links(d: dict) -> dict[str, list[int]]:
     """
     s = d.get("solution", {})
     links: dict[str, list[int]] = {k: [] for k, _, _ in PROPERTY_LABELS}
+    detail = d.get("warnings_detail")
+    if detail and len(detail) == len(d.get("warnings", [])):
+        groups = {"density": _DENSITY, "activity": _AT_T, "freezing": _FREEZING,
+                  "boiling": _BOILING, "vapor": ("vapor_pressure_kPa",
+                                                 "vapor_pressure_lowering_kPa"),
+                  "recipe": (), "": _AT_T + _FREEZING + _BOILING}
+        for i, w in enumerate(detail, start=1):
+            keys = groups.get(w.get("about", ""), ())
+            if w.get("kind") == "volatile-solute":
+                keys = _BOILING
+            for k in keys:
+                links[k].append(i)
+        return links
     targets = {"T": (s.get("temperature_C"), _AT_T),
                "Tf": (s.get("freezing_point_C"), _FREEZING),
                "Tb": (s.get("boiling_point_C"), _BOILING)}

@@ -12,7 +12,7 @@ from pathlib import Path
 
 import pandas as pd
 
-from ..recipe import _find_columns
+from ..recipe import find_columns
 from ..report import (COMPOSITION_SIG, PROPERTY_LABELS, dilute_text, fmt, property_model,
                       property_text, warning_links)
 
@@ -65,7 +65,7 @@ def clean_table(df: pd.DataFrame) -> pd.DataFrame:
 
 def _to_editor(df: pd.DataFrame) -> tuple[pd.DataFrame, list[str]]:
     """Map a table with its own header onto the editor's columns; notes on dropped ones."""
-    found = _find_columns(df.columns)
+    found = find_columns(df.columns)
     canon = {"molar_mass": "molar_mass", "assay": "assay_%"}
     rename = {col: canon.get(k, k) for k, col in found.items()}
     dropped = [str(c) for c in df.columns if c not in rename]
@@ -87,7 +87,7 @@ def frame_from_text(text: str, *, decimal_comma: bool = False) -> tuple[pd.DataF
     sample = lines[0]
     sep = "\t" if "\t" in sample else (";" if (";" in sample or decimal_comma) else ",")
     rows = list(csv.reader(io.StringIO("\n".join(lines)), delimiter=sep))
-    found = _find_columns([c.strip() for c in rows[0]])
+    found = find_columns([c.strip() for c in rows[0]])
     if "ingredient" in found and "amount" in found:
         width = len(rows[0])
         body = [r + [""] * (width - len(r)) for r in rows[1:]]
@@ -194,8 +194,14 @@ def sort_cautions(d: dict) -> dict[str, list[str]]:
     (heating closed vessels, beside the vapor-pressure chart). Every caution lands in
     exactly one group.
     """
-    names = {str(c.get("library_name") or "").lower() for c in d.get("components", [])}
     out: dict[str, list[str]] = {"ingredients": [], "results": [], "vessels": []}
+    detail = d.get("cautions_detail")
+    if detail:
+        place = {"ingredient": "ingredients", "vessel": "vessels"}
+        for c in detail:
+            out[place.get(c["tag"], "results")].append(c["message"])
+        return out
+    names = {str(c.get("library_name") or "").lower() for c in d.get("components", [])}
     for msg in d.get("cautions", []):
         head = msg.split(":", 1)[0].strip().lower()
         if head in names:
