@@ -80,6 +80,8 @@ def text_report(d: dict) -> str:
     lines.append("")
     dil = s.get("dilute_ideal", {})
     for key, lab, unit in PROPERTY_LABELS:
+        if key == "water_activity" and s.get("solvent", "Water") != "Water":
+            lab = f"Solvent activity ({s['solvent']})"
         v = fmt(s.get(key))
         extra = f"   (dilute ideal: {fmt(dil[key])})" if key in dil else ""
         lines.append(f"{lab:<28}{v:>14} {unit:<8}{extra}")
