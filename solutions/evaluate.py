@@ -180,7 +180,12 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tupl
         if ing.caution:
             out.append(("ingredient", f"{ing.name}: {ing.caution}."))
     comp = res.composition
-    if comp.solvent.is_water:
+    osm = (float(np.asarray(props.osmolality).reshape(-1)[0]) if props is not None
+           else float("nan"))
+    # tonicity matters for things that meet the body: osmolalities near physiological
+    # (hypotonic to strongly hypertonic); a coolant or syrup at thousands of mOsm/kg is no
+    # injectable, and the caution would only be noise there
+    if comp.solvent.is_water and not (math.isfinite(osm) and osm > 1.5):
         out.append(("tonicity", "Osmolality and tonicity here are model estimates. Anything to be injected, "
                    "infused or put in the eye must be confirmed by measurement (e.g. "
                    "freezing-point osmometry) and meet your pharmacopoeia and licensed "

@@ -25,8 +25,11 @@ def test_warnings_say_what_they_are_about():
 
 
 def test_cautions_are_tagged():
-    """Toxic glycol, tonicity, freeze protection and sealed vessels each get their caution."""
+    """Toxic glycol, freeze protection and sealed vessels each get their caution; a coolant at
+    thousands of mOsm/kg gets no tonicity caution, a saline rinse does."""
     d = ev("ethylene glycol,40,% w/w\nwater,balance,")
     tags = {c["tag"] for c in d["cautions_detail"]}
-    assert tags == {"ingredient", "tonicity", "freezing", "vessel"}
+    assert tags == {"ingredient", "freezing", "vessel"}
     assert any("toxic" in c for c in d["cautions"])
+    saline = ev("sodium chloride,0.9,% w/v\nwater,q.s. to 1000,mL")
+    assert {c["tag"] for c in saline["cautions_detail"]} == {"tonicity", "vessel"}
