@@ -16,6 +16,7 @@ from solutions import __version__
 from solutions.errors import SolutionsError
 from solutions.ingredients import write_library_file
 from solutions.report import html_report, json_text, property_text, summary_csv
+from solutions.ui import design as D
 from solutions.ui import state as S
 from solutions.ui.compute import (CAPTIONS, Conditions, below_freezing, chart_curves,
                                   evaluate_table,
@@ -57,6 +58,26 @@ def html_for(table, token: str, cond: tuple, decimal: str, name: str) -> str:
     return html_report(report_dict(page), report_charts(page, curves))
 
 
+@st.cache_data(show_spinner=False, max_entries=32)
+def target_for(table, token: str, cond: tuple, decimal: str, name: str, req: tuple):
+    page = page_for(table, token, cond, decimal, name)
+    lib, _ = library_for(token)
+    return D.solve_request(page.read, table, D.TargetRequest(*req), lib, Conditions(*cond))
+
+
+@st.cache_data(show_spinner=False, max_entries=32)
+def weigh_for(table, token: str, cond: tuple, decimal: str, name: str, batch_text: str):
+    page = page_for(table, token, cond, decimal, name)
+    return D.weigh_out_sheet(page.read, batch_text, Conditions(*cond))
+
+
+@st.cache_data(show_spinner=False, max_entries=32)
+def dilution_for(table, token: str, cond: tuple, decimal: str, name: str, req: tuple):
+    page = page_for(table, token, cond, decimal, name)
+    lib, _ = library_for(token)
+    return D.plan_dilution(page.read, D.DilutionRequest(*req), lib, Conditions(*cond))
+
+
 # ------------------------------------------------------------------ callbacks
 def on_demo():
     if ss["demo"] is not None:
@@ -91,6 +112,25 @@ def on_upload():
     ss["recipe_table"], ss["load_notes"] = df, notes
     ss["recipe_name"] = Path(f.name).stem
     ss["demo"] = None
+    ss.pop(S.EDITOR_KEY, None)
+
+
+def on_solve(key: str):
+    ss["target_request"] = (dataclasses.astuple(D.request_from(ss)), key)
+    ss["design_message"] = ""
+
+
+def on_plan_dilution(key: str):
+    ss["dilution_request"] = (dataclasses.astuple(D.dilution_request_from(ss)), key)
+
+
+def on_load_adjusted(frame, name: str, note: str):
+    ss["demo"] = None  # the table is no longer a demo
+    ss["recipe_table"] = frame
+    ss["recipe_name"] = name
+    ss["load_notes"] = [note]
+    ss["target_request"] = None
+    ss["design_message"] = note
     ss.pop(S.EDITOR_KEY, None)
 
 
@@ -313,11 +353,201 @@ if "vapor" in charts:
             for n in curves["vapor"].notes:
                 st.markdown(f"- {n}")
 
+# ------------------------------------------------------------------ design and batch
+st.divider()
+st.header("Design and batch")
+st.caption(f"On the recipe above as written, at {s['temperature_C']:g} °C and "
+           f"{s['pressure_kPa']:g} kPa (sidebar), model: {s['model_description']}. Volumes "
+           f"are read at {cond.T_prep_C:g} °C."
+           + (f" Without row(s) {', '.join(str(p.row) for p in page.read.problems)}, as in "
+              "the Results." if page.read.problems else ""))
+here_key = D.table_key(table, decimal)
+stem = "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in (d["recipe_name"] or
+                                                                      "recipe")) or "recipe"
+t_target, t_scale, t_dilute = st.tabs(["Target: solve for an amount", "Scale-up / weigh-out",
+                                       "Dilution from stock"])
+
+
+def show_notes(d: dict, shown: dict | None, *, ingredients: bool = True):
+    if d["warnings"]:
+        with st.container(border=True):
+            st.markdown("**⚠ Warnings**\n" + "".join(f"\n- {w}" for w in d["warnings"]))
+    for c in D.design_cautions(d, shown, ingredients=ingredients):
+        st.warning(c, icon=":material/warning:")
+
+
+with t_target:
+    st.caption("Find the amount of one ingredient that gives the recipe a stated property. "
+               "Every other row, and the q.s. or balance rule, stays as written.")
+    vary_opts = D.vary_options(page.read)
+    g1, g2, g3 = st.columns([3, 3, 2])
+    g1.selectbox("Ingredient to vary", vary_opts, key="tg_vary",
+                 help="A dissolved ingredient of the recipe, or a library ingredient to add "
+                      "as a new row.")
+    if ss["tg_vary"] == D.ADD_INGREDIENT:
+        g1.selectbox("Library ingredient to add", D.addable_ingredients(library, page.read),
+                     key="tg_add", help="Added in % w/v to a q.s.-to-volume recipe, in % w/w "
+                     "to a balance or q.s.-to-mass one, in g otherwise.")
+    g2.selectbox("Target property", list(D.TARGET_CHOICES), key="tg_property",
+                 format_func=lambda k: D.choice_label(k, cond))
+    choice = D.TARGET_CHOICES[ss["tg_property"]]
+    if ss["tg_property"] == "concentration":
+        varied_now = ss["tg_add"] if ss["tg_vary"] == D.ADD_INGREDIENT else ss["tg_vary"]
+        g2.selectbox("Concentration of", [r.text for r in page.read.recipe.rows
+                                          if r.text != varied_now], key="tg_component")
+        g3.number_input("Target value", min_value=0.0, step=choice.step, format=choice.format,
+                        key="tg_value_concentration")
+        g3.selectbox("Unit", D.CONCENTRATION_UNITS, key="tg_basis")
+        now = D.current_value(page, "concentration", ss.get("tg_component"), ss["tg_basis"])
+    else:
+        label = ("Isotonic osmolality (mOsm/kg)" if choice.isotonic else
+                 f"Target ({choice.unit})" if choice.unit else "Target")
+        g3.number_input(label, step=choice.step, format=choice.format,
+                        key=f"tg_value_{ss['tg_property']}",
+                        help="290 mOsm/kg unless your reference says otherwise; the "
+                             "E-value (sodium chloride equivalent) method is shown beside "
+                             "the model." if choice.isotonic else None)
+        now = D.current_value(page, ss["tg_property"])
+    g3.caption(f"This recipe now: {now}")
+    st.button("Solve", type="primary", key="tg_solve", on_click=on_solve, args=(here_key,))
+    if ss["design_message"]:
+        st.success(ss["design_message"], icon=":material/check_circle:")
+
+    stash = ss["target_request"]
+    if stash is not None and stash[1] != here_key:
+        st.info("The recipe has changed since the last Solve: press Solve for this recipe.")
+    elif stash is not None:
+        req = D.TargetRequest(*stash[0])
+        out = target_for(table, token, cond_t, decimal, ss["recipe_name"], stash[0])
+        st.markdown(f"**Target:** {req.describe(cond)}")
+        if dataclasses.astuple(D.request_from(ss)) != stash[0]:
+            st.caption("The boxes above have changed since this was solved: press Solve to "
+                       "update.")
+        if not out.ok and out.unreachable:
+            st.error(f"Target not reachable: {out.error}", icon=":material/error:")
+            if out.nearest is not None:
+                st.warning(f"Nearest reachable value: {D.fmt(out.nearest, D.SIG)} "
+                           f"{out.nearest_unit}".strip(), icon=":material/info:")
+        elif not out.ok:
+            st.error(f"Not solved: {out.error}", icon=":material/error:")
+        else:
+            td = out.d
+            cols = st.columns(3)
+            for col, (lab, val, helptext) in zip(cols, D.answer_metrics(td)):
+                col.metric(lab, val, help=helptext, border=True)
+            st.caption(D.answer_caption(td))
+            e_lines = D.e_value_lines(td)
+            if e_lines:
+                st.info("**Sodium-chloride-equivalent (E-value) check.** " + " ".join(e_lines),
+                        icon=":material/calculate:")
+                with st.expander("E-values used and their sources"):
+                    st.table(D.e_value_frame(td), hide_index=True)
+            a1, a2 = st.columns(2, gap="large")
+            a1.markdown("**Adjusted recipe**")
+            a1.table(D.recipe_frame(td), hide_index=True)
+            a2.markdown("**Properties: this recipe and the adjusted one**")
+            a2.table(D.comparison_frame(d, td), hide_index=True)
+            show_notes(td, cautions)
+            stem_t = f"{stem}_adjusted"
+            b1, b2, b3 = st.columns(3)
+            b1.download_button("Adjusted recipe (CSV)", D.adjusted_recipe_csv(out.rows),
+                               file_name=f"{stem_t}.csv", mime="text/csv", key="dl_adjusted",
+                               on_click="ignore")
+            b2.download_button("Target result (JSON)", D.target_json(td),
+                               file_name=f"{stem_t}.json", mime="application/json",
+                               key="dl_target_json", on_click="ignore")
+            v = td["varied"]
+            b3.button("Load the adjusted recipe into the table", key="tg_load",
+                      on_click=on_load_adjusted,
+                      args=(D.adjusted_table(out.rows, decimal),
+                            f"{d['recipe_name'] or 'recipe'} (adjusted)",
+                            f"adjusted recipe loaded: {v['ingredient']} "
+                            f"{D.amount_text(v['amount'])} {v['unit']} for "
+                            f"{req.describe(cond).split(', varying')[0]}"))
+
+with t_scale:
+    st.caption("The recipe scaled to a batch: the mass of each ingredient to weigh (as "
+               "weighed, hydrates with their crystal water, corrected for assay) and the "
+               "water to add by mass and by volume.")
+    w1, w2, _ = st.columns([2, 1, 3])
+    w1.number_input("Batch size", min_value=0.001, step=1.0, key="wo_size")
+    w2.selectbox("Unit", S.BATCH_UNITS, key="wo_unit")
+    st.caption(f"A volume is the final volume at {cond.T_prep_C:g} °C; a mass the total mass. "
+               "This batch is separate from the sidebar's, which scales the Results above.")
+    wo = weigh_for(table, token, cond_t, decimal, ss["recipe_name"],
+                   f"{ss['wo_size']!r} {ss['wo_unit']}")
+    if not wo.ok:
+        st.error(f"No weigh-out sheet: {wo.error}", icon=":material/error:")
+    else:
+        wd = wo.d
+        f = wd["final"]
+        st.markdown(f"**Weigh-out sheet for {ss['wo_size']:g} {ss['wo_unit']}** "
+                    f"(× {D.fmt(wd['scale_factor'], D.SIG)} of the recipe as written)")
+        st.table(D.weigh_out_frame(wd), hide_index=True)
+        st.caption("Volumes of liquid ingredients are at 20 °C from the library's pure "
+                   "densities; weighing is the surer way.")
+        m1, m2, m3, m4 = st.columns(4)
+        m1.metric("Final mass (g)", D.fmt(f["mass_g"], D.SIG), border=True)
+        m2.metric(f"Final volume at {f['volume_temperature_C']:g} °C (mL)",
+                  D.fmt(f["volume_mL"], D.SIG), border=True)
+        m3.metric(f"Density at {f['volume_temperature_C']:g} °C (g/mL)",
+                  D.fmt(f["density_g_per_mL"], 5), border=True)
+        m4.metric(f"Volume at {f['temperature_C']:g} °C (mL)",
+                  D.fmt(f["volume_mL_at_T"], D.SIG), border=True,
+                  help=f"At the sidebar's temperature; density there "
+                       f"{D.fmt(f['density_g_per_mL_at_T'], 5)} g/mL.")
+        show_notes(wd, cautions, ingredients=False)
+        st.download_button("Weigh-out sheet (CSV)", D.weigh_out_csv(wd),
+                           file_name=f"{stem}_weigh_out_{ss['wo_size']:g}{ss['wo_unit']}.csv",
+                           mime="text/csv", key="dl_weigh_out", on_click="ignore")
+
+with t_dilute:
+    st.caption("This recipe as the stock, diluted with its solvent to a lower concentration "
+               "of one ingredient.")
+    solute_opts = [o for o in vary_opts if o != D.ADD_INGREDIENT]
+    if not solute_opts:
+        st.info("The recipe has no dissolved ingredient to dilute.")
+    else:
+        n1, n2, n3 = st.columns([3, 3, 3])
+        n1.selectbox("Ingredient", solute_opts, key="dl_ingredient")
+        n2a, n2b = n2.columns([3, 2])
+        n2a.number_input("Target concentration", min_value=0.0, step=0.1, format="%.4f",
+                         key="dl_to_value")
+        n2b.selectbox("Unit", D.CONCENTRATION_UNITS, key="dl_to_unit")
+        n3a, n3b = n3.columns([3, 2])
+        n3a.number_input("Final amount", min_value=0.001, step=1.0, key="dl_final_value")
+        n3b.selectbox("Unit", S.BATCH_UNITS, key="dl_final_unit")
+        n1.caption("The stock has " + D.stock_concentration(
+            page.read.recipe, ss["dl_ingredient"], ss["dl_to_unit"], library, cond)
+            + f" (volumes at {cond.T_prep_C:g} °C).")
+        st.button("Plan the dilution", type="primary", key="dl_plan",
+                  on_click=on_plan_dilution, args=(here_key,))
+        dstash = ss["dilution_request"]
+        if dstash is not None and dstash[1] != here_key:
+            st.info("The recipe has changed since the last plan: press Plan the dilution "
+                    "for this stock.")
+        elif dstash is not None:
+            dreq = D.DilutionRequest(*dstash[0])
+            dout = dilution_for(table, token, cond_t, decimal, ss["recipe_name"], dstash[0])
+            st.markdown(f"**Dilution:** {dreq.final_value:g} {dreq.final_unit} of "
+                        f"{dreq.to_value:g} {dreq.to_unit} {dreq.ingredient}")
+            if dataclasses.astuple(D.dilution_request_from(ss)) != dstash[0]:
+                st.caption("The boxes above have changed since this was planned: press Plan "
+                           "the dilution to update.")
+            if not dout.ok:
+                st.error(f"No dilution: {dout.error}", icon=":material/error:")
+            else:
+                x = dout.d["dilution"]
+                st.table(D.dilution_frame(dout.d), hide_index=True)
+                st.info(D.mixing_text(dout.d), icon=":material/science:")
+                st.caption(f"Achieved {D.amount_text(x['achieved'])} {x['unit']} "
+                           f"{x['ingredient']} (stock {D.amount_text(x['stock_concentration'])} "
+                           f"{x['unit']}; {x['iterations']} brentq iterations).")
+                show_notes(dout.d, cautions, ingredients=False)
+
 # ------------------------------------------------------------------ downloads
 st.divider()
 st.header("Downloads")
-stem = "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in (d["recipe_name"] or
-                                                                      "recipe")) or "recipe"
 rd = report_dict(page)
 d1, d2, d3 = st.columns(3)
 d1.download_button("Summary table (CSV)", summary_csv(rd), file_name=f"{stem}.csv",

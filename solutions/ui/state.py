@@ -15,6 +15,7 @@ import pandas as pd
 from ..errors import SolutionsError
 from ..ingredients import Ingredient, Library, default_library, ingredient_from_record
 from .compute import Conditions
+from .design import TARGET_CHOICES
 from .tables import DEFAULT_BASES, blank_table, demo_recipes, frame_from_text
 
 __all__ = ["DEFAULTS", "PRESSURE_PRESETS", "CUSTOM_PRESSURE", "MODEL_OPTIONS",
@@ -63,6 +64,20 @@ DEFAULTS = {
     "rho_measured": 1.000,
     "T_prep_C": 20.0,
     "bases": list(DEFAULT_BASES),
+    # "Design and batch": target, scale-up, dilution (the ingredient boxes take their
+    # options from the recipe, so they start at their first option instead)
+    "tg_property": "freezing_point",
+    **{f"tg_value_{k}": c.default for k, c in TARGET_CHOICES.items()},
+    "tg_basis": "% w/v",
+    "target_request": None,        # TargetRequest of the last Solve; None = nothing asked
+    "design_message": "",          # after loading the adjusted recipe into the table
+    "wo_size": 5.0,
+    "wo_unit": "L",
+    "dl_to_value": 1.0,
+    "dl_to_unit": "% w/w",
+    "dl_final_value": 1.0,
+    "dl_final_unit": "L",
+    "dilution_request": None,      # DilutionRequest of the last "Plan the dilution"
 }
 
 
