@@ -247,8 +247,8 @@ def test_invalid_custom_ingredient_shows_the_library_reason():
 
 def test_every_caution_is_shown():
     at = run_app()
-    at.selectbox(key="demo").select("runway_deicer").run()
-    d = library_dict("runway_deicer")
+    at.selectbox(key="demo").select("cryo_medium").run()
+    d = library_dict("cryo_medium")
     shown = " ".join(w.value for w in at.warning)
     assert d["cautions"]
     for c in d["cautions"]:
@@ -308,7 +308,7 @@ def test_read_table_numbers_rows_as_the_table_shows_them():
 
 def test_sort_cautions_places_every_caution_once():
     from solutions.ui.tables import sort_cautions
-    for name in ("runway_deicer", "cryo_medium", "saline_rinse"):
+    for name in ("walkway_deicer", "cryo_medium", "saline_rinse"):
         d = library_dict(name)
         groups = sort_cautions(d)
         placed = [c for g in groups.values() for c in g]

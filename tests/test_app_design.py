@@ -204,7 +204,7 @@ def test_load_adjusted_recipe_into_the_table():
 def test_a_solve_is_tied_to_its_recipe():
     at = app("chiller_coolant")
     solve_on_page(at, "propylene glycol", "freezing_point", -25.0)
-    at.selectbox(key="demo").select("runway_deicer").run()
+    at.selectbox(key="demo").select("walkway_deicer").run()
     assert not at.exception
     assert not [m for m in at.metric if m.label.startswith("New amount")]
     assert any("recipe has changed since the last Solve" in i.value for i in at.info)
