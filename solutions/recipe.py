@@ -29,13 +29,13 @@ import pandas as pd
 
 from .composition import Composition
 from .density import solution_density
-from .errors import Caveat, IngredientError, RecipeError, SolutionsError, UnitParseError
+from .errors import Caveat, IngredientError, RecipeError, UnitParseError
 from .ingredients import Ingredient, Library, default_library, ingredient_from_record
 from .units import Amount, Basis, is_solvent_rule, parse_unit
 from .water import water_density
 
 __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
-           "find_columns"]
+           "find_columns", "parse_batch"]
 
 T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
 
@@ -558,5 +558,3 @@ def parse_batch(text: str) -> tuple[str, float]:
         return "volume", v
     raise RecipeError(f"batch {text!r}: the unit must be a mass or a volume")
 
-
-__all__ += ["parse_batch", "SolutionsError"]

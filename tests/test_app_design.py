@@ -24,7 +24,6 @@ from solutions.recipe import parse_batch, read_recipe
 from solutions.targeting import Target, solve_target
 from solutions.ui import design as D
 from solutions.ui.compute import Conditions, read_table
-from solutions.ui.state import EDITOR_KEY
 from solutions.ui.tables import frame_from_text
 
 ROOT = Path(__file__).resolve().parents[1]
