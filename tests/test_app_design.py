@@ -226,8 +226,8 @@ def test_weigh_out_for_5_L_matches_weigh_out():
     assert_shows(metric(at, "Final volume at 20 °C"), f["volume_mL"])
     assert_shows(metric(at, "Density at 20 °C"), f["density_g_per_mL"])
     assert_shows(metric(at, "Volume at 25 °C"), f["volume_mL_at_T"])
-    # 0.66 % w/v NaCl in 5 L: the batch really applied
-    assert d["weigh_out"][0]["weigh_g"] == pytest.approx(33.0, rel=1e-9)
+    # 0.58 % w/v NaCl in 5 L: the batch really applied
+    assert d["weigh_out"][0]["weigh_g"] == pytest.approx(29.0, rel=1e-9)
 
 
 def test_weigh_out_csv_holds_the_library_numbers():

@@ -41,7 +41,7 @@ def test_weigh_out_to_5_litres():
     rows = d["weigh_out"]
     np.testing.assert_allclose([r["weigh_g"] for r in rows[:-1]],
                                base.weighed_kg * 1e4, rtol=1e-12)
-    assert rows[0]["weigh_g"] == pytest.approx(0.66 / 100 * 5000, rel=1e-12)  # 0.66 % w/v
+    assert rows[0]["weigh_g"] == pytest.approx(0.58 / 100 * 5000, rel=1e-12)  # 0.58 % w/v
     water = rows[-1]
     assert water["solvent"] and water["weigh_g"] == pytest.approx(base.water_added_kg * 1e4,
                                                                   rel=1e-12)
