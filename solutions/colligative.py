@@ -34,6 +34,7 @@ from scipy.optimize import elementwise
 
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
+from .units import ureg
 from .errors import Caveat, OutOfRangeError, SolutionsError, merge_caveats
 from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
@@ -42,7 +43,7 @@ from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pr
 __all__ = ["ColligativeResult", "colligative", "freezing_point", "boiling_point",
            "vapor_pressure_pure", "R", "T_MELT", "T_TRIPLE", "P_ATM"]
 
-R = 8.314462618  # J/(mol K), CODATA 2018 (exact: N_A k)
+R = float(ureg.Quantity(1.0, "molar_gas_constant").to("J/(mol*K)").magnitude)  # CODATA, via pint
 T_MELT = 273.15       # K, ice point at 101.325 kPa
 T_TRIPLE = 273.16     # K, where a_ice = 1 on the sublimation/liquid ratio scale
 P_ATM = 101325.0      # Pa
@@ -95,7 +96,7 @@ def vapor_pressure_pure(comp: Composition, T):
     """Vapor pressure of the pure (liquid) solvent [Pa] at ``T`` [K], and caveats."""
     T = np.asarray(T, dtype=float)
     if comp.solvent.is_water:
-        out = np.where(T >= T_MELT, 0.0, 0.0)
+        out = np.zeros_like(T)
         hi = T >= T_MELT
         if np.any(T > 647.096):
             raise OutOfRangeError("temperature", float(np.max(T)), 123.0, 647.096, "K",
@@ -212,7 +213,7 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
         ln_p = np.log(P)
 
         def psat(T):
-            return saturation_pressure(np.clip(T, 273.16, 647.096))
+            return saturation_pressure(np.clip(T, T_TRIPLE, 647.096))
     else:
         from .solvents import antoine_boiling_temperature, antoine_vapor_pressure
         name = _solvent_name(comp)

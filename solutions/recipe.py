@@ -401,7 +401,7 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
     else:
         raise RecipeError("the density of this recipe did not settle; check the amounts")
     m_tot, m_w, m_wa, weighed = x
-    _check_result(rows, solvent_row, solvent, m_tot, m_wa, rho, M, h, weighed)
+    _check_result(rows, solvent_row, m_tot, m_wa, rho, weighed)
     comp = _composition(rows, solvent, M, h, x)
     res = ResolvedRecipe(recipe, comp, solvent_row, weighed / np.array([r.assay for r in rows])
                          if rows else weighed, weighed, float(m_wa), float(rho), T_prep, it,
@@ -510,7 +510,7 @@ def _composition(rows, solvent, M, h, x) -> Composition:
                        np.array([m_w]), solvent, tuple(r.text for r in rows))
 
 
-def _check_result(rows, solvent_row, solvent, m_tot, m_wa, rho, M, h, weighed):
+def _check_result(rows, solvent_row, m_tot, m_wa, rho, weighed):
     if m_wa < -1e-12 * max(m_tot, 1e-30):
         if solvent_row is not None and solvent_row.amount.basis is Basis.QS_VOLUME:
             need = (m_tot - m_wa) / rho

@@ -64,10 +64,6 @@ class Amount:
     value_si: float
     text: str  # the unit text as typed, for messages and for writing the recipe back
 
-    def to_unit_value(self, value_si: float) -> float:
-        """Convert an SI value of this basis back to the number in the typed unit."""
-        return value_si / (self.value_si if self.value_si else 1.0)
-
 
 _SPACES = re.compile(r"\s+")
 
@@ -165,8 +161,6 @@ def parse_unit(text: str, *, solvent_rule: bool = False) -> Amount:
     if basis is None:
         raise UnitParseError(raw, f"a unit of {dim} is not a recipe amount")
     value_si = float(q.to_base_units().magnitude)
-    if basis is Basis.MOLALITY or basis is Basis.MOLARITY:
-        value_si = float(q.to_base_units().magnitude)
     if solvent_rule:
         if basis is Basis.MASS:
             return Amount(Basis.QS_MASS, value_si, raw)

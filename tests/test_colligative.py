@@ -3,7 +3,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from solutions.colligative import colligative, freezing_point, boiling_point, T_MELT
+from solutions.colligative import R, colligative, freezing_point, boiling_point, T_MELT
 from solutions.composition import Composition
 from solutions.errors import OutOfRangeError
 from solutions.evaluate import evaluate
@@ -142,7 +142,7 @@ def test_vapor_pressure_facts():
 def test_osmotic_pressure_van_t_hoff_limit():
     """Dilute limit: Π ≈ c R T (van 't Hoff, textbook); 0.01 mol/kg sucrose at 25 °C ≈ 24.7 kPa."""
     res = colligative(Composition.from_molalities((LIB.get("sucrose"),), [[0.01]], WATER), 298.15)
-    assert res.osmotic_pressure[0] / 1e3 == pytest.approx(0.01 * 0.997 * 8.314462618 * 298.15, rel=0.01)
+    assert res.osmotic_pressure[0] / 1e3 == pytest.approx(0.01 * 0.997 * R * 298.15, rel=0.01)
 
 
 def test_ideal_model_is_raoult():

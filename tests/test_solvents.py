@@ -18,7 +18,7 @@ from solutions.solvents import (
 )
 from solutions.water import saturation_temperature
 
-R = 8.314462618  # J/(mol K)
+from solutions.colligative import R  # J/(mol K), the package's one CODATA value
 ATM = 101325.0   # Pa
 
 

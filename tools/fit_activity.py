@@ -27,6 +27,7 @@ from scipy.optimize import brentq
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
+from solutions.colligative import T_TRIPLE  # noqa: E402
 from solutions.ingredients import M_WATER, molar_mass_from_formula  # noqa: E402
 from solutions.water import ice_water_activity  # noqa: E402
 
@@ -50,7 +51,7 @@ W_MAX = {"Ethanol": 50.0, "Methanol": 50.0}
 def T_pure() -> float:
     """Temperature where ice and pure liquid water coexist on this ice-activity scale [K]:
     the triple point, where a_ice = 1 by construction of the ratio."""
-    return 273.16
+    return T_TRIPLE
 
 
 def fit(x_s: np.ndarray, dT: np.ndarray, T0: float, nterms: int):

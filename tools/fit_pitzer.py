@@ -25,11 +25,12 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from solutions.activity.pitzer import B_PITZER, debye_huckel_Aphi  # noqa: E402
+from solutions.colligative import T_TRIPLE  # noqa: E402
 from solutions.ingredients import M_WATER, molar_mass_from_formula  # noqa: E402
 from solutions.water import ice_water_activity  # noqa: E402
 
 OUT = ROOT / "solutions" / "data" / "pitzer_binary.csv"
-T0 = 273.16  # a_ice = 1 at the triple point on the sublimation/liquid ratio scale
+T0 = T_TRIPLE  # a_ice = 1 at the triple point on the sublimation/liquid ratio scale
 ALPHA = 2.0
 
 # salt key: (CRC solute, anhydrous formula, nu_M, nu_X, z_M, z_X)
