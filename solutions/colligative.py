@@ -34,7 +34,7 @@ from scipy.optimize import elementwise
 
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
-from .units import ureg
+from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
 from .errors import Caveat, OutOfRangeError, SolutionsError, merge_caveats
 from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
@@ -43,10 +43,6 @@ from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pr
 __all__ = ["ColligativeResult", "colligative", "freezing_point", "boiling_point",
            "vapor_pressure_pure", "R", "T_MELT", "T_TRIPLE", "P_ATM"]
 
-R = float(ureg.Quantity(1.0, "molar_gas_constant").to("J/(mol*K)").magnitude)  # CODATA, via pint
-T_MELT = 273.15       # K, ice point at 101.325 kPa
-T_TRIPLE = 273.16     # K, where a_ice = 1 on the sublimation/liquid ratio scale
-P_ATM = 101325.0      # Pa
 T_FREEZE_MIN = 190.0  # K, lowest freezing point searched (below every solution here)
 T_ICE_THERMO_MIN = 236.0  # K, lowest T of the enthalpy-of-fusion ice relation
 
@@ -98,8 +94,8 @@ def vapor_pressure_pure(comp: Composition, T):
     if comp.solvent.is_water:
         out = np.zeros_like(T)
         hi = T >= T_MELT
-        if np.any(T > 647.096):
-            raise OutOfRangeError("temperature", float(np.max(T)), 123.0, 647.096, "K",
+        if np.any(T > T_CRIT):
+            raise OutOfRangeError("temperature", float(np.max(T)), 123.0, T_CRIT, "K",
                                   "liquid water does not exist above the critical point "
                                   "(647.096 K, 22.064 MPa)")
         if np.any(hi):
@@ -204,16 +200,16 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
                               "only the water's vapor and is too high; a real mixture boils "
                               "lower and its vapor is rich in the volatile part", volatile[0]))
     if comp.solvent.is_water:
-        if np.any(P < 611.657) or np.any(P > 22.064e6):
-            bad = float(P[(P < 611.657) | (P > 22.064e6)][0])
-            raise OutOfRangeError("pressure", bad / 1e3, 0.611657, 22064.0, "kPa",
+        if np.any(P < P_TRIPLE) or np.any(P > P_CRIT):
+            bad = float(P[(P < P_TRIPLE) | (P > P_CRIT)][0])
+            raise OutOfRangeError("pressure", bad / 1e3, P_TRIPLE / 1e3, P_CRIT / 1e3, "kPa",
                                   "water boils only between its triple point and its critical "
                                   "point")
         T_pure = np.asarray(saturation_temperature(P), dtype=float)
         ln_p = np.log(P)
 
         def psat(T):
-            return saturation_pressure(np.clip(T, T_TRIPLE, 647.096))
+            return saturation_pressure(np.clip(T, T_TRIPLE, T_CRIT))
     else:
         from .solvents import antoine_boiling_temperature, antoine_vapor_pressure
         name = _solvent_name(comp)

@@ -46,6 +46,14 @@ class UnitParseError(SolutionsError, ValueError):
         super().__init__(f"cannot read unit {text!r}: {reason}")
 
 
+class NumberError(SolutionsError, ValueError):
+    """A typed number could not be read; ``text`` is what was typed, ``reason`` why not."""
+
+    def __init__(self, text: str, reason: str):
+        self.text, self.reason = text, reason
+        super().__init__(f"{text!r} {reason}")
+
+
 class IngredientError(SolutionsError, KeyError):
     """An ingredient is unknown or its library entry is incomplete or invalid."""
 

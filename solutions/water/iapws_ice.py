@@ -29,15 +29,13 @@ from __future__ import annotations
 
 import numpy as np
 
+from solutions.constants import P_TRIPLE, R as R_MOLAR, T_MELT, T_TRIPLE
 from solutions.water.iapws_if97 import _as_result, _check_range
-
-#: Molar gas constant [J/(mol K)] (CODATA 2018, exact in the 2019 SI).
-R_MOLAR = 8.314462618
 
 # --- IAPWS R14-08(2011), sublimation-pressure equation of ice Ih ---------------
 #: Triple point used as reducing point [K], [Pa].
-_T_T = 273.16
-_P_T = 611.657
+_T_T = T_TRIPLE
+_P_T = P_TRIPLE
 #: Coefficients a_i and exponents b_i of the sublimation-pressure equation.
 _SUBL_A = np.array([-0.212144006e2, 0.273203819e2, -0.610598130e1])
 _SUBL_B = np.array([0.333333333e-2, 0.120666667e1, 0.170333333e1])
@@ -49,8 +47,6 @@ SUPERCOOLED_T_MIN = 123.0
 SUPERCOOLED_T_MAX = 332.0
 
 # --- Thermodynamic route ----------------------------------------------------------
-#: Normal melting point of ice at 101.325 kPa [K] (common practice: 0 degC).
-T_MELT = 273.15
 #: Lower end of the thermodynamic route [K]: the validity limit of Murphy &
 #: Koop's enthalpy of vaporization of supercooled water, Eq. (9) (236 K as
 #: recalled from the paper, not re-read; the equation itself was checked).
