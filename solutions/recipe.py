@@ -17,6 +17,7 @@ stated, as volumetric glassware is calibrated.
 """
 from __future__ import annotations
 
+import csv
 import io
 import math
 import re
@@ -29,9 +30,9 @@ import pandas as pd
 
 from .composition import Composition
 from .density import solution_density
-from .errors import Caveat, IngredientError, RecipeError, UnitParseError
+from .errors import Caveat, IngredientError, NumberError, RecipeError, UnitParseError
 from .ingredients import Ingredient, Library, default_library, ingredient_from_record
-from .units import Amount, Basis, is_solvent_rule, parse_unit
+from .units import Amount, Basis, is_solvent_rule, parse_unit, read_number
 from .water import water_density
 
 __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
@@ -101,55 +102,95 @@ def find_columns(columns: Iterable[str]) -> dict[str, str]:
     return found
 
 
+#: the most rows and the longest cell a recipe may have (a recipe is a bench sheet)
+MAX_ROWS = 500
+MAX_CELL = 1000
+
+
+def _is_comment(line: str) -> bool:
+    return line.lstrip().startswith("#")
+
+
 def _read_text(text: str, decimal: str) -> pd.DataFrame:
-    sample = text.strip().splitlines()[0] if text.strip() else ""
-    sep = "\t" if "\t" in sample else (";" if sample.count(";") > sample.count(",") else ",")
-    if decimal == "," and sep == ",":
-        sep = ";"
-    return pd.read_csv(io.StringIO(text), sep=sep, dtype=str, keep_default_na=False,
-                       skipinitialspace=True, comment="#")
+    """A recipe table from CSV/TSV text. The delimiter is read from the header line alone (tab,
+    else ';', else ','); lines starting with '#' are comments and blank lines are skipped, but both
+    keep their place in the row count, so 'row N' is the N-th line under the header."""
+    lines = text.splitlines()
+    head_i = next((i for i, ln in enumerate(lines) if ln.strip() and not _is_comment(ln)), None)
+    if head_i is None:
+        raise RecipeError("the recipe is empty: write a header line 'ingredient,amount,unit' "
+                          "and one line per ingredient")
+    header = lines[head_i]
+    sep = "\t" if "\t" in header else (";" if ";" in header else ",")
+    if len(lines) - head_i - 1 > MAX_ROWS:
+        raise RecipeError(f"the recipe has {len(lines) - head_i - 1} lines; at most {MAX_ROWS} "
+                          "rows are read")
+    cols = [c.strip() for c in next(csv.reader([header], delimiter=sep))]
+    records, rows = [], []
+    for k, line in enumerate(lines[head_i + 1:], start=1):
+        if not line.strip() or _is_comment(line):
+            continue
+        try:
+            fields = next(csv.reader([line], delimiter=sep, skipinitialspace=True))
+        except csv.Error as exc:
+            raise RecipeError(f"cannot read this line: {exc}", k) from None
+        if len(fields) > len(cols) and any(f.strip() for f in fields[len(cols):]):
+            hint = (" — an unquoted decimal comma? quote the number (\"0,9\") or separate "
+                    "columns with ';' or a tab" if sep == "," else "")
+            raise RecipeError(f"has {len(fields)} fields but the header has {len(cols)} "
+                              f"({', '.join(cols)}){hint}", k)
+        fields = (fields + [""] * len(cols))[:len(cols)]
+        records.append(fields)
+        rows.append(k)
+    df = pd.DataFrame(records, columns=cols, dtype=object)
+    df.index = rows
+    return df
 
 
 def _table(source, decimal: str) -> pd.DataFrame:
     if isinstance(source, pd.DataFrame):
-        return source.astype(object).where(source.notna(), "")
+        df = source.astype(object).where(source.notna(), "")
+        df.index = range(1, len(df) + 1)
+        return df
     if isinstance(source, Path) or (isinstance(source, str) and "\n" not in source
                                     and source.lower().endswith((".csv", ".tsv", ".txt",
                                                                  ".xlsx", ".xls"))):
         p = Path(source)
-        if not p.exists():
+        if not p.is_file():
             raise RecipeError(f"recipe file {str(p)!r} not found")
         if p.suffix.lower() in (".xlsx", ".xls"):
-            return pd.read_excel(p, dtype=str).fillna("")
-        return _read_text(p.read_text(encoding="utf-8-sig"), decimal)
+            return read_workbook(p.read_bytes(), p.name)
+        try:
+            return _read_text(p.read_text(encoding="utf-8-sig"), decimal)
+        except UnicodeDecodeError:
+            raise RecipeError(f"recipe file {p.name!r} is not UTF-8 text; save it as CSV "
+                              "(UTF-8) or XLSX") from None
     if isinstance(source, str):
         return _read_text(source, decimal)
     raise RecipeError(f"cannot read a recipe from a {type(source).__name__}")
 
 
-def _to_float(cell, *, row: int, column: str, name: str, decimal: str) -> float | None:
-    if cell is None:
-        return None
-    if isinstance(cell, (int, float, np.floating, np.integer)):
-        x = float(cell)
-        if math.isnan(x):
-            return None
-    else:
-        t = str(cell).strip().replace("\u2212", "-")
-        if not t or t.lower() == "nan":
-            return None
-        if decimal == ",":
-            t = t.replace(".", "").replace(",", ".") if "," in t else t
-        t = t.replace(" ", "")
-        try:
-            x = float(t)
-        except ValueError:
-            hint = " (a decimal comma? read the recipe with decimal ',')" if \
-                re.fullmatch(r"[-+]?[0-9]+,[0-9]+", t) and decimal != "," else ""
-            raise RecipeError(f"{cell!r} is not a number{hint}", row, column, name) from None
-    if not math.isfinite(x):
-        raise RecipeError(f"{cell!r} is not a finite number", row, column, name)
-    return x
+def read_workbook(data: bytes, name: str = "recipe.xlsx") -> pd.DataFrame:
+    """The first sheet of an .xlsx workbook as a table of text cells, rows numbered from 1
+    under the header; a file that is not a workbook is refused with a clear message."""
+    try:
+        df = pd.read_excel(io.BytesIO(data), dtype=str, engine="openpyxl")
+    except Exception:  # openpyxl raises many kinds for a file that is not a workbook
+        raise RecipeError(f"{name!r} is not a readable .xlsx workbook; save it as .xlsx or "
+                          "CSV") from None
+    if len(df) > MAX_ROWS:
+        raise RecipeError(f"the workbook has {len(df)} rows; at most {MAX_ROWS} rows are read")
+    df = df.astype(object).where(df.notna(), "")
+    df.index = range(1, len(df) + 1)
+    return df
+
+
+def _number(cell, *, row: int, column: str, name: str, decimal: str) -> float | None:
+    """A numeric cell through the one number reader; a refusal names row, column and value."""
+    try:
+        return read_number(cell, decimal=decimal)
+    except NumberError as exc:
+        raise RecipeError(f"{exc.text!r} {exc.reason}", row, column, name) from None
 
 
 _QS_TO = re.compile(r"^\s*(q\.?\s*s\.?|qs)\s*(ad|to)?\s*(?P<num>[-+0-9.,eE]+)?\s*(?P<unit>.*)$",
@@ -175,11 +216,16 @@ def read_recipe(source, library: Library | None = None, *, decimal: str = ".",
                               f"{', '.join(map(str, df.columns)) or 'none'}); expected "
                               "ingredient, amount, unit")
     rows = []
-    for i, rec in enumerate(df.to_dict("records"), start=1):
-        text = str(rec.get(cols["ingredient"], "") or "").strip()
+    for i, rec in zip(df.index, df.to_dict("records")):
+        i = int(i)
+        for col, cell in rec.items():
+            if isinstance(cell, str) and len(cell) > MAX_CELL:
+                raise RecipeError(f"a cell of {len(cell)} characters; at most {MAX_CELL} are "
+                                  "read", i, str(col))
+        text = _clean_name(rec.get(cols["ingredient"], ""))
         amount_cell = rec.get(cols["amount"], "")
         unit_cell = str(rec.get(cols.get("unit", ""), "") or "").strip() if "unit" in cols else ""
-        if not text and str(amount_cell).strip() == "" and not unit_cell:
+        if not text and str(amount_cell).strip() in ("", "nan") and not unit_cell:
             continue  # blank line
         if not text:
             raise RecipeError("the ingredient name is empty", i, "ingredient")
@@ -192,9 +238,14 @@ def read_recipe(source, library: Library | None = None, *, decimal: str = ".",
 
 
 def _parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal) -> RecipeRow:
-    inline = {k: rec.get(cols[k], "") for k in ("formula", "molar_mass", "density", "ions",
-                                                 "hydrate_water") if k in cols}
-    inline = {k: v for k, v in inline.items() if str(v).strip() not in ("", "nan", "None")}
+    inline = {}
+    if "formula" in cols and str(rec.get(cols["formula"], "") or "").strip() not in ("", "nan"):
+        inline["formula"] = str(rec[cols["formula"]]).strip()
+    for k in ("molar_mass", "density", "ions", "hydrate_water"):
+        if k in cols:
+            v = _number(rec.get(cols[k], ""), row=i, column=cols[k], name=text, decimal=decimal)
+            if v is not None:
+                inline[k] = _check_inline(k, v, row=i, column=cols[k], name=text)
     try:
         ing = _ingredient(text, inline, lib)
     except IngredientError as exc:
@@ -208,7 +259,7 @@ def _parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal) -> Reci
         num = m.group("num") if m else None
         if m and m.group("unit") and not unit_text:
             unit_text = m.group("unit").strip()
-        number = (_to_float(num, row=i, column="amount", name=text, decimal=decimal)
+        number = (_number(num, row=i, column="amount", name=text, decimal=decimal)
                   if num else None)
         if raw.lower().replace(" ", "").startswith(("bal", "rest", "remainder")):
             number, unit_text = None, ""
@@ -217,10 +268,12 @@ def _parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal) -> Reci
             raise RecipeError("the amount is empty", i, "amount", text)
         m = _NUM_UNIT.match(raw) if isinstance(amount_cell, str) else None
         if m and m.group("unit").strip() and not unit_cell:
-            number = _to_float(m.group("num"), row=i, column="amount", name=text, decimal=decimal)
+            number = _number(m.group("num"), row=i, column="amount", name=text, decimal=decimal)
             unit_text = m.group("unit").strip()
         else:
-            number = _to_float(amount_cell, row=i, column="amount", name=text, decimal=decimal)
+            number = _number(amount_cell, row=i, column="amount", name=text, decimal=decimal)
+            if number is None:
+                raise RecipeError("the amount is empty", i, "amount", text)
     try:
         amount = parse_unit(unit_text, solvent_rule=solvent_rule)
     except UnitParseError as exc:
@@ -232,19 +285,57 @@ def _parse_row(i, text, amount_cell, unit_cell, rec, cols, lib, decimal) -> Reci
                           f"{unit_text or 'mL'!r}", i, "amount", text)
     if number is not None and number <= 0:
         raise RecipeError(f"amount must be positive, got {number:g}", i, "amount", text)
+    if number is not None and not math.isfinite(number * amount.value_si * 1e6):
+        raise RecipeError(f"amount {number:g} {unit_text} is too large to compute with",
+                          i, "amount", text)
     assay = 1.0
     if "assay" in cols:
-        a = _to_float(rec.get(cols["assay"], ""), row=i, column=cols["assay"], name=text,
-                      decimal=decimal)
+        a = _number(rec.get(cols["assay"], ""), row=i, column=cols["assay"], name=text,
+                    decimal=decimal)
         if a is not None:
             if not (0 < a <= 100):
                 raise RecipeError(f"assay must be in (0, 100] %, got {a:g}", i, cols["assay"], text)
+            if a <= 1:
+                raise RecipeError(f"assay {a:g} % looks like a fraction: did you mean "
+                                  f"{a * 100:g} %? (the assay column is in percent)",
+                                  i, cols["assay"], text)
             assay = a / 100.0
     if amount.basis in (Basis.VOLUME, Basis.VOLUME_FRACTION) and not ing.rho_pure \
             and not ing.is_water:
         raise RecipeError(f"a volume of {ing.name} needs its density: it is not a liquid in "
                           "the library; give a 'density' column (g/mL) or weigh it", i, "unit", text)
     return RecipeRow(i, ing, amount, number, assay, text)
+
+
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+
+
+def _clean_name(cell) -> str:
+    """An ingredient name as typed, without control characters (terminal escapes)."""
+    return _CONTROL.sub("", str(cell if cell is not None else "")).strip()
+
+
+def _check_inline(kind: str, v: float, *, row: int, column: str, name: str) -> float:
+    """Physical checks on an inline number of kind ``molar_mass`` [g/mol], ``density`` (pure
+    liquid) [g/mL], ``ions`` or ``hydrate_water``; returns it or raises naming row and column."""
+    where = dict(row=row, column=column, ingredient=name)
+    if kind == "density":
+        if 500 <= v <= 3000:
+            raise RecipeError(f"density {v:g} looks like kg/m³: the column is in g/mL — did "
+                              f"you mean {v / 1000:g}?", **where)
+        if not (0.5 <= v <= 3.0):
+            raise RecipeError(f"density {v:g} g/mL is not a liquid's density (0.5–3 g/mL)",
+                              **where)
+    elif kind == "molar_mass":
+        if not (1.0 <= v <= 1e7):
+            raise RecipeError(f"molar mass {v:g} g/mol is outside 1–10 000 000 g/mol", **where)
+    elif kind == "ions":
+        if not (1 <= v <= 20):
+            raise RecipeError(f"ions per formula unit {v:g} is outside 1–20", **where)
+    elif kind == "hydrate_water":
+        if not (0 <= v <= 30):
+            raise RecipeError(f"waters of crystallisation {v:g} is outside 0–30", **where)
+    return v
 
 
 def _ingredient(text: str, inline: dict, lib: Library) -> Ingredient:
@@ -287,6 +378,11 @@ def _check_rows(recipe: Recipe) -> None:
     if total > 1.0 + 1e-12:
         raise RecipeError(f"the % w/w and ppm rows add up to {total * 100:.6g} %, over 100 %",
                           frac[-1].row, "amount", frac[-1].text)
+    balance = [r for r in rules if r.amount.basis is Basis.BALANCE]
+    if balance and frac and total >= 1.0 - 1e-9:
+        raise RecipeError(f"the % w/w rows add up to {total * 100:.6g} %, leaving nothing for "
+                          "the balance row; lower them or drop the balance row",
+                          balance[0].row, "amount", balance[0].text)
     vfrac = [r for r in recipe.rows if r.amount.basis is Basis.VOLUME_FRACTION]
     if sum(r.value_si for r in vfrac) > 1.0 + 1e-12:
         raise RecipeError("the % v/v rows add up to over 100 %", vfrac[-1].row, "amount",
@@ -545,16 +641,31 @@ def _scale_to(res: ResolvedRecipe, batch: tuple[str, float]) -> ResolvedRecipe:
                    pure_kg=res.pure_kg * f, water_added_kg=res.water_added_kg * f)
 
 
-def parse_batch(text: str) -> tuple[str, float]:
-    """Parse a batch size such as ``"5 L"`` or ``"20 kg"`` into (``"mass"|"volume"``, SI)."""
+#: batch sizes the tool computes: 1 µg to 1 000 t [kg], 1 µL to 1 000 m³ [m³]
+BATCH_MASS_RANGE = (1e-9, 1e6)
+BATCH_VOLUME_RANGE = (1e-9, 1e3)
+
+
+def parse_batch(text: str, *, decimal: str = ".") -> tuple[str, float]:
+    """Parse a batch size such as ``"5 L"`` or ``"20 kg"`` into (``"mass"|"volume"``, SI).
+
+    >>> parse_batch("5 L"), parse_batch("20 kg")
+    (('volume', 0.005), ('mass', 20.0))
+    """
     m = _NUM_UNIT.match(str(text))
     if not m or not m.group("unit").strip():
         raise RecipeError(f"batch {text!r}: write a number and a unit, e.g. '5 L' or '20 kg'")
-    amount = parse_unit(m.group("unit"))
-    v = float(m.group("num").replace(",", ".")) * amount.value_si
-    if amount.basis is Basis.MASS:
-        return "mass", v
-    if amount.basis is Basis.VOLUME:
-        return "volume", v
-    raise RecipeError(f"batch {text!r}: the unit must be a mass or a volume")
-
+    try:
+        amount = parse_unit(m.group("unit"))
+        x = read_number(m.group("num"), decimal=decimal)
+    except (UnitParseError, NumberError) as exc:
+        raise RecipeError(f"batch {text!r}: {exc.reason}") from None
+    v = x * amount.value_si
+    if amount.basis not in (Basis.MASS, Basis.VOLUME):
+        raise RecipeError(f"batch {text!r}: the unit must be a mass or a volume")
+    kind = "mass" if amount.basis is Basis.MASS else "volume"
+    lo, hi = BATCH_MASS_RANGE if kind == "mass" else BATCH_VOLUME_RANGE
+    if not (lo <= v <= hi):
+        shown = ("1 µg to 1 000 t" if kind == "mass" else "1 µL to 1 000 m³")
+        raise RecipeError(f"batch {text!r} is outside the sizes this tool computes ({shown})")
+    return kind, v
