@@ -19,7 +19,7 @@ import math
 import os
 import sys
 
-from .errors import SolutionsError, TargetError
+from .errors import NumberError, OptionError, SolutionsError, TargetError, UnitParseError
 
 EXIT_INPUT, EXIT_UNREACHABLE = 2, 3
 
@@ -43,16 +43,21 @@ def dumps(obj) -> str:
 
 def _common(p: argparse.ArgumentParser) -> None:
     p.add_argument("recipe", help="recipe file (CSV, TSV or XLSX) with ingredient, amount, unit")
-    p.add_argument("--temperature", "-T", type=float, default=25.0,
-                   help="temperature of the solution, °C (default 25)")
-    p.add_argument("--pressure", "-P", type=float, default=101.325,
-                   help="external pressure, kPa (default 101.325)")
+    p.add_argument("--temperature", "-T", default="25",
+                   help="temperature of the solution (default 25 °C; a bare number is °C, "
+                        "or give a unit: '298.15 K', '77 °F')")
+    p.add_argument("--pressure", "-P", default="101.325",
+                   help="external pressure, absolute (default 101.325 kPa; a bare number is "
+                        "kPa, or give a unit: '1 bar', '760 mmHg', '0.5 barg' for gauge)")
     p.add_argument("--model", default="nonideal", choices=["nonideal", "ideal", "dilute"],
                    help="activity model (default nonideal)")
-    p.add_argument("--density", type=float, default=None,
+    p.add_argument("--density", default=None,
                    help="measured solution density, g/mL (replaces the model)")
-    p.add_argument("--volume-temperature", type=float, default=20.0,
-                   help="temperature at which the recipe's volumes are read, °C (default 20)")
+    p.add_argument("--volume-temperature", default="20",
+                   help="temperature at which the recipe's volumes are read (default 20 °C)")
+    p.add_argument("--use", default="any", choices=["any", "technical"],
+                   help="'technical' states the product is not for the body (no tonicity "
+                        "cautions); default 'any' keeps them")
     p.add_argument("--library", default=None, help="your own ingredient library CSV")
     p.add_argument("--decimal-comma", action="store_true",
                    help="the recipe writes decimals with a comma (0,9)")
@@ -71,19 +76,19 @@ def build_parser() -> argparse.ArgumentParser:
     _common(tg)
     tg.add_argument("--vary", required=True, help="the ingredient to adjust (as in the recipe)")
     g = tg.add_mutually_exclusive_group(required=True)
-    g.add_argument("--freezing-point", type=float, help="target freezing point, °C")
-    g.add_argument("--freezing-point-depression", type=float, help="target depression, K")
+    g.add_argument("--freezing-point", help="target freezing point, °C")
+    g.add_argument("--freezing-point-depression", help="target depression, K")
     g.add_argument("--osmolality", help="target osmolality, mOsm/kg, or 'isotonic'")
-    g.add_argument("--osmolarity", type=float, help="target calculated osmolarity, mOsm/L")
-    g.add_argument("--water-activity", type=float, help="target water activity (0–1)")
-    g.add_argument("--boiling-point", type=float, help="target boiling point at --pressure, °C")
-    g.add_argument("--vapor-pressure", type=float,
+    g.add_argument("--osmolarity", help="target calculated osmolarity, mOsm/L")
+    g.add_argument("--water-activity", help="target water activity (0–1)")
+    g.add_argument("--boiling-point", help="target boiling point at --pressure, °C")
+    g.add_argument("--vapor-pressure",
                    help="target vapor pressure at --temperature, kPa")
-    g.add_argument("--target-density", "--density-target", dest="target_density", type=float,
+    g.add_argument("--target-density", "--density-target", dest="target_density",
                    help="target solution density at --temperature, g/mL")
     g.add_argument("--concentration", nargs=2, metavar=("INGREDIENT", "VALUE_UNIT"),
                    help="target concentration of another ingredient, e.g. NaCl '0.9 %% w/v'")
-    tg.add_argument("--isotonic-mOsm", type=float, default=290.0,
+    tg.add_argument("--isotonic-mOsm", default="290",
                     help="osmolality taken as isotonic, mOsm/kg (default 290)")
 
     sc = sub.add_parser("scale", help="weigh-out sheet for a batch")
@@ -113,14 +118,57 @@ def _load(args):
     return lib, recipe
 
 
+#: temperatures at which the tool computes a liquid solution [K]: −100 °C to water's critical point
+T_RANGE = (173.15, 647.096)
+
+
+def _temperature(option: str, text) -> float:
+    from .units import parse_temperature
+    try:
+        T = parse_temperature(text)
+    except (UnitParseError, NumberError) as exc:
+        raise OptionError(option, text, exc.reason) from None
+    if not (T_RANGE[0] <= T <= T_RANGE[1]):
+        raise OptionError(option, text, "the tool computes liquid solutions from −100 °C to "
+                                        "374 °C (water's critical point)")
+    return T
+
+
+def _pressure(option: str, text) -> float:
+    from .units import parse_pressure
+    try:
+        P = parse_pressure(text)
+    except (UnitParseError, NumberError) as exc:
+        raise OptionError(option, text, exc.reason) from None
+    if P > 1e8:
+        raise OptionError(option, text, "above 100 MPa, outside every model here")
+    return P
+
+
+def _density(text) -> float | None:
+    """A measured solution density typed in g/mL → kg/m³, with physical checks."""
+    from .units import read_number
+    if text is None:
+        return None
+    try:
+        rho = read_number(text)
+    except NumberError as exc:
+        raise OptionError("--density", text, exc.reason) from None
+    if rho is None:
+        return None
+    if 500 <= rho <= 3000:
+        raise OptionError("--density", text, f"looks like kg/m³; the option is in g/mL — "
+                                             f"did you mean {rho / 1000:g}?")
+    if not (0.5 <= rho <= 3.0):
+        raise OptionError("--density", text, "a solution density is between 0.5 and 3 g/mL")
+    return rho * 1e3
+
+
 def _conditions(args) -> dict:
-    if not (-100.0 < args.temperature < 374.0):
-        raise SolutionsError(f"--temperature {args.temperature:g} °C is outside −100…374 °C")
-    if not (args.pressure > 0):
-        raise SolutionsError(f"--pressure must be positive (kPa), got {args.pressure:g}")
-    return dict(T=args.temperature + 273.15, P=args.pressure * 1e3, model=args.model,
-                rho_measured=None if args.density is None else args.density * 1e3,
-                T_prep=args.volume_temperature + 273.15)
+    return dict(T=_temperature("--temperature", args.temperature),
+                P=_pressure("--pressure", args.pressure), model=args.model,
+                rho_measured=_density(args.density),
+                T_prep=_temperature("--volume-temperature", args.volume_temperature))
 
 
 def cmd_evaluate(args) -> int:
@@ -128,7 +176,7 @@ def cmd_evaluate(args) -> int:
     from .recipe import parse_batch
     _, recipe = _load(args)
     batch = parse_batch(args.batch) if args.batch else None
-    ev = evaluate(recipe, batch=batch, **_conditions(args))
+    ev = evaluate(recipe, batch=batch, use=args.use, **_conditions(args))
     if args.json:
         print(dumps(ev.to_dict()))
     else:
@@ -137,12 +185,59 @@ def cmd_evaluate(args) -> int:
     return 0
 
 
+def _number(option: str, text) -> float:
+    from .units import read_number
+    try:
+        x = read_number(text)
+    except NumberError as exc:
+        raise OptionError(option, text, exc.reason) from None
+    if x is None:
+        raise OptionError(option, text, "a number is needed")
+    return x
+
+
+def _target(args):
+    """The target asked for on the command line (°C, K, mOsm/kg, mOsm/L, kPa, g/mL)."""
+    from .targeting import Target
+    iso = _number("--isotonic-mOsm", args.isotonic_mOsm)
+    if not 100 <= iso <= 1000:
+        raise OptionError("--isotonic-mOsm", args.isotonic_mOsm, "isotonic is taken as "
+                          "100–1000 mOsm/kg (290 by default, common practice)")
+    iso *= 1e-3
+    if args.freezing_point is not None:
+        from .units import parse_temperature
+        try:
+            return Target.freezing_point(parse_temperature(args.freezing_point))
+        except (UnitParseError, NumberError) as exc:
+            raise OptionError("--freezing-point", args.freezing_point, exc.reason) from None
+    if args.freezing_point_depression is not None:
+        return Target.freezing_point_depression(
+            _number("--freezing-point-depression", args.freezing_point_depression))
+    if args.osmolality is not None:
+        text = str(args.osmolality).strip()
+        if text.lower() in ("isotonic", "iso"):
+            return Target.osmolality("isotonic", iso)
+        return Target.osmolality(_number("--osmolality", text) * 1e-3, iso)
+    if args.osmolarity is not None:
+        return Target.osmolarity(_number("--osmolarity", args.osmolarity))
+    if args.water_activity is not None:
+        return Target.water_activity(_number("--water-activity", args.water_activity))
+    if args.boiling_point is not None:
+        return Target.boiling_point(_temperature("--boiling-point", args.boiling_point))
+    if args.vapor_pressure is not None:
+        return Target.vapor_pressure(_pressure("--vapor-pressure", args.vapor_pressure))
+    if args.target_density is not None:
+        return Target.density(_number("--target-density", args.target_density) * 1e3)
+    comp, text = args.concentration
+    return Target.concentration(comp, text)
+
+
 def cmd_target(args) -> int:
-    from .targeting import Target, solve_target
+    from .targeting import solve_target
     from .report import text_report
     lib, recipe = _load(args)
     cond = _conditions(args)
-    target = Target.from_cli(args)
+    target = _target(args)
     result = solve_target(recipe, args.vary, target, library=lib, **cond)
     out = result.to_dict()
     if args.json:

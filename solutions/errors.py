@@ -85,6 +85,14 @@ class RecipeError(SolutionsError, ValueError):
         super().__init__(prefix + reason)
 
 
+class OptionError(SolutionsError, ValueError):
+    """A command-line option or a page setting has a value the tool cannot use."""
+
+    def __init__(self, option: str, value, reason: str):
+        self.option, self.value, self.reason = option, value, reason
+        super().__init__(f"{option} {value!r}: {reason}")
+
+
 class TargetError(SolutionsError, ValueError):
     """A design target cannot be reached; carries the nearest reachable value."""
 

@@ -23,10 +23,13 @@ import numpy as np
 from . import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
-from .errors import Caveat, merge_caveats
+from .errors import Caveat, OptionError, merge_caveats
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
 
-__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows"]
+__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows", "USES"]
+
+#: what a product is for: "any" keeps every caution, "technical" (not for the body) drops tonicity
+USES = ("any", "technical")
 
 
 @dataclass
@@ -41,6 +44,7 @@ class Evaluation:
     dilute: ColligativeResult
     warnings: list[Caveat] = field(default_factory=list)
     cautions: list[tuple[str, str]] = field(default_factory=list)  # (tag, message)
+    use: str = "any"         # "technical": stated not for the body
 
     @property
     def composition(self):
@@ -102,7 +106,8 @@ class Evaluation:
                      "date": _dt.date.today().isoformat()},
             "recipe_name": r.recipe.name,
             "conditions": {"temperature_C": self.T - 273.15, "pressure_kPa": self.P / 1e3,
-                           "model": self.model, "volumes_read_at_C": r.T_prep - 273.15},
+                           "model": self.model, "volumes_read_at_C": r.T_prep - 273.15,
+                           "use": self.use},
             "components": self.components(),
             "solution": self.solution(),
             "recipe": recipe_rows(r.recipe),
@@ -170,9 +175,13 @@ def recipe_rows(recipe: Recipe) -> list[dict]:
     return out
 
 
-def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tuple[str, str]]:
+def cautions_for(ev_or_res, props: ColligativeResult | None = None, *,
+                 use: str = "any") -> list[tuple[str, str]]:
     """The usual cautions for what this recipe's numbers could be used for, each with a tag
-    saying what it is about: ``ingredient``, ``tonicity``, ``freezing`` or ``vessel``."""
+    saying what it is about: ``ingredient``, ``tonicity``, ``freezing`` or ``vessel``.
+
+    ``use="technical"`` states that the product is not for the body: only then is the
+    tonicity caution left out."""
     res = ev_or_res.resolved if isinstance(ev_or_res, Evaluation) else ev_or_res
     props = props or (ev_or_res.props if isinstance(ev_or_res, Evaluation) else None)
     out = []
@@ -185,7 +194,7 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tupl
     # tonicity matters for things that meet the body: osmolalities near physiological
     # (hypotonic to strongly hypertonic); a coolant or syrup at thousands of mOsm/kg is no
     # injectable, and the caution would only be noise there
-    if comp.solvent.is_water and not (math.isfinite(osm) and osm > 1.5):
+    if comp.solvent.is_water and use != "technical" and not (math.isfinite(osm) and osm > 1.5):
         out.append(("tonicity", "Osmolality and tonicity here are model estimates. Anything to be injected, "
                    "infused or put in the eye must be confirmed by measurement (e.g. "
                    "freezing-point osmometry) and meet your pharmacopoeia and licensed "
@@ -204,11 +213,15 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tupl
 
 def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P_ATM,
              model: str = "nonideal", rho_measured: float | None = None,
-             batch: tuple[str, float] | None = None, T_prep: float = T_PREP) -> Evaluation:
+             batch: tuple[str, float] | None = None, T_prep: float = T_PREP,
+             use: str = "any") -> Evaluation:
     """Resolve (if needed) and evaluate a recipe at ``T`` [K] and ``P`` [Pa].
 
     rho_measured : measured solution density [kg/m³], used for volumes at T_prep and T.
+    use : ``"any"`` (default) or ``"technical"`` (not for the body: no tonicity caution).
     """
+    if use not in USES:
+        raise OptionError("use", use, f"choose one of {', '.join(USES)}")
     res = recipe if isinstance(recipe, ResolvedRecipe) else resolve(
         recipe, batch=batch, T_prep=T_prep, rho_measured=rho_measured)
     comp = res.composition
@@ -221,6 +234,6 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
                               *props.caveats,
                               *(c.tagged("recipe") for c in solubility_caveats(comp))])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
-                    warnings)
-    ev.cautions = cautions_for(ev)
+                    warnings, use=use)
+    ev.cautions = cautions_for(ev, use=use)
     return ev

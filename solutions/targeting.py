@@ -187,41 +187,6 @@ class Target:
         number, amount = parse_quantity(text)
         return cls("concentration", number * amount.value_si, component, amount)
 
-    @classmethod
-    def from_cli(cls, args) -> "Target":
-        """The target of ``python -m solutions target`` (°C, K, mOsm/kg, mOsm/L, kPa, g/mL)."""
-        iso = getattr(args, "isotonic_mOsm", 290.0)
-        if not (iso and iso > 0):
-            raise SolutionsError(f"--isotonic-mOsm must be positive, got {iso}")
-        iso = iso * 1e-3
-        if getattr(args, "freezing_point", None) is not None:
-            return cls.freezing_point(args.freezing_point + 273.15)
-        if getattr(args, "freezing_point_depression", None) is not None:
-            return cls.freezing_point_depression(args.freezing_point_depression)
-        if getattr(args, "osmolality", None) is not None:
-            text = str(args.osmolality).strip()
-            if text.lower() in ("isotonic", "iso"):
-                return cls.osmolality("isotonic", iso)
-            try:
-                value = float(text.replace(",", "."))
-            except ValueError:
-                raise SolutionsError(f"--osmolality {text!r}: give mOsm/kg or 'isotonic'") from None
-            return cls.osmolality(value * 1e-3, iso)
-        if getattr(args, "osmolarity", None) is not None:
-            return cls.osmolarity(args.osmolarity)
-        if getattr(args, "water_activity", None) is not None:
-            return cls.water_activity(args.water_activity)
-        if getattr(args, "boiling_point", None) is not None:
-            return cls.boiling_point(args.boiling_point + 273.15)
-        if getattr(args, "vapor_pressure", None) is not None:
-            return cls.vapor_pressure(args.vapor_pressure * 1e3)
-        if getattr(args, "target_density", None) is not None:
-            return cls.density(args.target_density * 1e3)
-        if getattr(args, "concentration", None):
-            comp, text = args.concentration
-            return cls.concentration(comp, text)
-        raise SolutionsError("no target given")
-
     # --- display -------------------------------------------------------------------------
     @property
     def prop(self) -> _Prop:
