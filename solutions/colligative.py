@@ -28,6 +28,7 @@ from __future__ import annotations
 
 import warnings
 from dataclasses import dataclass, field
+from functools import cache
 
 import numpy as np
 from scipy.optimize import elementwise
@@ -45,6 +46,49 @@ __all__ = ["ColligativeResult", "colligative", "freezing_point", "boiling_point"
 
 T_FREEZE_MIN = 190.0  # K, lowest freezing point searched (below every solution here)
 T_ICE_THERMO_MIN = 236.0  # K, lowest T of the enthalpy-of-fusion ice relation
+#: a composition more than this factor past the highest molality its activity data reach
+#: gets no activity-derived result (withheld with the reason) instead of an extrapolation
+DATA_MARGIN = 1.10
+
+
+@cache
+def _ln_ice_at_triple() -> float:
+    """ln a_ice at the triple point on the scale used for freezing (IAPWS R14-08 sublimation
+    over Murphy–Koop supercooled liquid): −7e-8, not exactly 0, because the two published
+    equations meet there only to their precision (about 1e-5 K). Freezing uses ln a_ice
+    minus this offset, so pure water freezes at exactly the triple point on that scale and a
+    trace of solute gives a trace of depression, never a failed bracket."""
+    return float(np.log(ice_water_activity(T_TRIPLE)))
+
+
+def beyond_data(terms: ActivityTerms, bs) -> tuple[np.ndarray, list[Caveat]]:
+    """Compositions whose activity model would be extrapolated past its data by more than
+    :data:`DATA_MARGIN` (in molality), shape (N,), and a caveat naming each solute and limit.
+
+    The non-ideal model only: the ideal and dilute models are defined everywhere."""
+    n = len(np.atleast_1d(bs[0])) if bs else 1
+    mask = np.zeros(n, bool)
+    out: list[Caveat] = []
+    if terms.model != "nonideal":
+        return mask, out
+    for label, kind, par, b in zip(terms.labels, terms.kinds, terms.params, bs):
+        if kind == "pitzer":
+            limit, what = par[1].b_max, "its Pitzer parameters"
+        elif kind == "norrish":
+            limit, what = par.b_max, "its water-activity fit"
+        else:
+            continue
+        far = np.atleast_1d(np.asarray(b, dtype=float)) > DATA_MARGIN * limit
+        if np.any(far):
+            mask |= far
+            worst = float(np.max(np.atleast_1d(b)[far]))
+            out.append(Caveat(
+                "beyond-data", f"{label} at {worst:.4g} mol/kg is past the {limit:.4g} mol/kg "
+                f"that {what} reach (by more than {100 * (DATA_MARGIN - 1):.0f} %): water "
+                "activity, vapor pressure, osmolality, osmotic pressure, freezing and boiling "
+                "points are not reported rather than extrapolated", label,
+                {"molality": worst, "b_max": limit, "margin": DATA_MARGIN}))
+    return mask, out
 
 
 @dataclass
@@ -138,15 +182,20 @@ def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTe
         lo, hi = T_ICE_THERMO_MIN, T_MELT
         T0 = T_MELT
     else:
+        ln_ice0 = _ln_ice_at_triple()
+
         def f(T, *b):
-            return terms.ln_a(list(b), T) - np.log(ice_water_activity(T))
+            return terms.ln_a(list(b), T) - (np.log(ice_water_activity(T)) - ln_ice0)
         lo, hi = T_FREEZE_MIN, T_TRIPLE
         T0 = T_TRIPLE
     Tf = _bracketed_root(f, lo, hi, bs, N)
     dT = T0 - Tf
     if np.any(nu_b == 0):
         dT = np.where(nu_b == 0, 0.0, dT)
-    bad = ~np.isfinite(dT)
+    far, cav = beyond_data(terms, bs)
+    caveats.extend(cav)
+    dT = np.where(far, np.nan, dT)
+    bad = ~np.isfinite(dT) & ~far
     if np.any(bad):
         caveats.append(Caveat("model-range",
                               f"freezing point below {lo - 273.15:.0f} °C, outside the range "
@@ -321,6 +370,21 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             f"({Tb[i] - 273.15:.4g} °C): the solution boils in an open vessel; in a closed one its "
             f"vapor pressure ({p_liq[i] / 1e3:.4g} kPa) builds up — use a rated pressure vessel",
             None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
+    far, cav = beyond_data(terms, bs)
+    impossible = ~np.isfinite(ln_a) | ((ln_a >= 0.0) & (comp.particle_molality() > 0))
+    if np.any(impossible & ~far):
+        caveats.append(Caveat(
+            "beyond-data", "the activity model gives a water activity of 1 or more for a "
+            "solution with solutes, which cannot exist: activity-derived results are not "
+            "reported", None))
+    withheld = far | impossible
+    if np.any(withheld):
+        caveats.extend(cav)
+        ln_a = np.where(withheld, np.nan, ln_a)
+        a = np.exp(ln_a)
+        p_liq = np.where(withheld, np.nan, p_liq)
+        p_stable = np.where(withheld, np.nan, p_stable)
+        Tf, dTf, Tb, dTb = (np.where(withheld, np.nan, v) for v in (Tf, dTf, Tb, dTb))
     Ms = comp.solvent.M
     osmolality = -ln_a / Ms
     nu_b = comp.particle_molality()

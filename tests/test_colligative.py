@@ -261,10 +261,14 @@ def test_brines_against_lange(solute, name, wmax):
 def test_monosodium_phosphate_range_is_stated():
     """CRC Handbook 102nd ed. Concentrative Properties: NaH2PO4 freezing points within
     max(0.15 K, 3 %) up to 9.5 % w/w; beyond 0.9 mol/kg the result carries a range warning
-    (there the 25 °C parameters run up to 11 % deep at 20 % w/w)."""
+    (there the 25 °C parameters run up to 11 % deep at 20 % w/w), and past 1.1 times that
+    molality the freezing point is withheld with the reason rather than extrapolated."""
     d = crc("electrolytes", "Sodium dihydrogen phosphate", 9.5)
     _, dT, cav = freezing_point(binary("NaH2PO4", d.mass_pct / 100))
     ref = d.freezing_point_depression_K.to_numpy()
     np.testing.assert_array_less(np.abs(dT - ref), np.maximum(0.15, 0.03 * ref))
-    _, _, cav = freezing_point(binary("NaH2PO4", [0.15]))
+    _, _, cav = freezing_point(binary("NaH2PO4", [0.105]))
     assert any("molality" in c.message and "NaH2PO4" in c.message for c in cav)
+    _, dT, cav = freezing_point(binary("NaH2PO4", [0.15]))
+    assert np.isnan(dT[0])
+    assert any(c.kind == "beyond-data" and "0.9 mol/kg" in c.message for c in cav)
