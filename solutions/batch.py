@@ -31,8 +31,8 @@ from .errors import Caveat, RecipeError, SolutionsError, TargetError, merge_cave
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, parse_batch, resolve
-from .targeting import (_CONC_BASES, component_concentration, find_row, parse_quantity,
-                        solubility_caveats)
+from .limits import solubility_caveats
+from .targeting import _CONC_BASES, component_concentration, find_row, parse_quantity
 from .units import Basis, parse_unit
 from .water import water_density
 
@@ -202,7 +202,7 @@ def weigh_out(recipe: Recipe, batch: tuple[str, float], *, T: float = 298.15,
     base = resolve(recipe, T_prep=T_prep, rho_measured=rho_measured)
     res = resolve(recipe, batch=batch, T_prep=T_prep, rho_measured=rho_measured)
     ev = evaluate(res, T=T, P=P, model=model, rho_measured=rho_measured, T_prep=T_prep)
-    return WeighOut(recipe, batch, base, res, ev, solubility_caveats(res, T))
+    return WeighOut(recipe, batch, base, res, ev, solubility_caveats(res.composition, T))
 
 
 
@@ -401,7 +401,7 @@ def dilution_plan(recipe: Recipe, ingredient: str, to_text: str, final_text: str
         raise TargetError(f"the dilution solve ended at {achieved / amount.value_si:.8g} {unit} "
                           f"instead of {number:g} {unit}; this is a bug, please report it",
                           achieved / amount.value_si, unit)
-    caveats = solubility_caveats(final, T)
+    caveats = solubility_caveats(final.composition, T)
     if rho_measured is not None:
         caveats.append(Caveat("measured-density", "the measured density applies to the stock; "
                               "the mixture's density is the model's", None))

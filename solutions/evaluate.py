@@ -232,7 +232,7 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     from .limits import solubility_caveats
     warnings = merge_caveats([*(c.tagged("density") for c in (*res.caveats, *dres.caveats)),
                               *props.caveats,
-                              *(c.tagged("recipe") for c in solubility_caveats(comp))])
+                              *solubility_caveats(comp, T)])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings, use=use)
     ev.cautions = cautions_for(ev, use=use)

@@ -54,10 +54,11 @@ from .errors import Caveat, IngredientError, RecipeError, SolutionsError, Target
 from .evaluate import Evaluation, evaluate
 from .ingredients import Ingredient, Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
+from .limits import e_value_table, e_values, eutectic, solubility_limit
 from .units import Amount, Basis, parse_unit
 
 __all__ = ["Target", "TargetResult", "solve_target", "find_row", "recipe_table", "recipe_csv",
-           "solubility_limit", "solubility_caveats", "eutectic", "e_values",
+           "solubility_limit", "eutectic", "e_values",
            "e_value_isotonic", "component_concentration", "ISOTONIC_OSMOLALITY",
            "ISOTONIC_NACL_G_PER_100ML", "W_CAP", "PROPERTIES"]
 
@@ -237,91 +238,6 @@ def parse_quantity(text: str) -> tuple[float, Amount]:
     return float(m.group("num").replace(",", ".")), parse_unit(m.group("unit"))
 
 
-# ---------------------------------------------------------------------------- data tables
-def _solute_keys(name: str, lib: Library) -> set[str]:
-    """The dissolved-solute keys a data-table name refers to (all forms of an ambiguous one)."""
-    try:
-        return {lib.get(name).solute}
-    except IngredientError as exc:
-        keys = set()
-        for s in exc.suggestions if "ambiguous" in exc.reason else ():
-            keys.add(lib.get(s).solute)
-        return keys
-
-
-@cache
-def _solubility_table() -> dict[str, list[tuple[float, float, str, str]]]:
-    path = resources.files("solutions.data") / "solubility.csv"
-    df = pd.read_csv(str(path))
-    lib = default_library()
-    out: dict[str, list] = {}
-    for r in df.to_dict("records"):
-        for key in _solute_keys(r["ingredient"], lib):
-            out.setdefault(key, []).append((float(r["T_C"]) + 273.15,
-                                            float(r["solubility_g_per_100g_water"]) / 100.0,
-                                            r["source"], r["ingredient"]))
-    return {k: sorted(v) for k, v in out.items()}
-
-
-def solubility_limit(solute: str, T: float) -> tuple[float, dict] | None:
-    """Solubility of dissolved solute ``solute`` (model key) at ``T`` [K].
-
-    Returns (r_sat [kg dissolved solute per kg water], info) or ``None`` without data;
-    linear in T between tabulated points, the nearest point outside (``info["extrapolated"]``).
-    """
-    rows = _solubility_table().get(solute)
-    if not rows:
-        return None
-    Ts = np.array([r[0] for r in rows])
-    rs = np.array([r[1] for r in rows])
-    outside = T < Ts[0] - 1e-9 or T > Ts[-1] + 1e-9
-    r = float(np.interp(T, Ts, rs))
-    return r, {"T_min": float(Ts[0]), "T_max": float(Ts[-1]), "extrapolated": bool(outside),
-               "source": rows[0][2], "name": rows[0][3]}
-
-
-@cache
-def _eutectic_table() -> dict[str, dict]:
-    path = resources.files("solutions.data") / "eutectics.csv"
-    df = pd.read_csv(str(path))
-    return {r["solute"]: r for r in df.to_dict("records")}
-
-
-def eutectic(solute: str) -> tuple[float, float, dict] | None:
-    """Ice–solute eutectic of ``solute`` (model key): (r_E [kg solute per kg water], T_E [K],
-    row) or ``None``; r_E = w_E / (1 − w_E) from the eutectic mass fraction w_E."""
-    row = _eutectic_table().get(solute)
-    if row is None:
-        return None
-    w = float(row["eutectic_mass_pct"]) / 100.0
-    return w / (1.0 - w), float(row["eutectic_T_C"]) + 273.15, row
-
-
-@cache
-def _e_value_table() -> dict[str, dict]:
-    path = resources.files("solutions.data") / "e_values.csv"
-    df = pd.read_csv(str(path), dtype=str, keep_default_na=False)
-    nacl = df[df["key"] == "sodium_chloride"]
-    dT_nacl = float(nacl["freezing_point_depression_1pct_K"].iloc[0])
-    out = {}
-    for r in df.to_dict("records"):
-        if not r["key"]:
-            continue  # the form (hydrate) is not stated: not matched to a library entry
-        if r["E_value"]:
-            out[r["key"]] = {"E": float(r["E_value"]), "derived": "", "source": r["source"]}
-        elif r["freezing_point_depression_1pct_K"]:
-            dT = float(r["freezing_point_depression_1pct_K"])
-            out[r["key"]] = {"E": dT / dT_nacl,
-                             "derived": f"E = ΔTf(1 %) {dT:g} K / {dT_nacl:g} K for NaCl",
-                             "source": r["source"]}
-    return out
-
-
-def e_values() -> dict[str, float]:
-    """E-values (sodium chloride equivalents) by library key, from ``e_values.csv``."""
-    return {k: v["E"] for k, v in _e_value_table().items()}
-
-
 # ---------------------------------------------------------------------------- recipe edits
 def _norm(text: str) -> str:
     return re.sub(r"[\s_\-,]+", "", str(text).strip().lower().replace("·", "."))
@@ -484,35 +400,6 @@ def _measure_ev(ev: Evaluation, target: Target, comp_row: int | None) -> float:
 
 
 # ---------------------------------------------------------------------------- solubility
-def solubility_caveats(res: ResolvedRecipe, T: float) -> list[Caveat]:
-    """A caveat for every ingredient above its tabulated solubility at ``T`` [K]."""
-    out = []
-    c = res.composition
-    m_w = float(c.m_solvent[0])
-    seen: dict[str, float] = {}
-    names: dict[str, str] = {}
-    for j, ing in enumerate(c.solutes):
-        seen[ing.solute] = seen.get(ing.solute, 0.0) + float(c.n[0, j]) * ing.M_solute
-        names.setdefault(ing.solute, ing.name)
-    for key, m in seen.items():
-        lim = solubility_limit(key, T)
-        if lim is None or m_w <= 0:
-            continue
-        r_sat, info = lim
-        r = m / m_w
-        if r > r_sat * (1 + 1e-9):
-            where = (f"nearest tabulated {info['T_min'] - 273.15:g}–{info['T_max'] - 273.15:g} °C"
-                     if info["extrapolated"] else f"{T - 273.15:.4g} °C")
-            out.append(Caveat(
-                "solubility",
-                f"{names[key]}: {r * 100:.4g} g per 100 g water exceeds its solubility, "
-                f"{r_sat * 100:.4g} g per 100 g water at {where} ({info['name']}, "
-                "solubility.csv): it will not all dissolve, and the figures assume it did",
-                names[key], {"g_per_100g_water": r * 100, "solubility_g_per_100g_water":
-                             r_sat * 100}))
-    return out
-
-
 # ---------------------------------------------------------------------------- the solve
 @dataclass
 class TargetResult:
@@ -683,7 +570,6 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
                           f"the {target.label} is {target.fmt(achieved)}, not the target "
                           f"{target.fmt(target.value)}; this is a bug, please report it",
                           target.display(achieved), target.unit)
-    caveats.extend(solubility_caveats(res, cond.T))
     caveats.extend(solver.caveats)
     varied = next(r for r in final.rows if r.row == row.row)
     e_method = None
@@ -930,7 +816,7 @@ def e_value_isotonic(res: ResolvedRecipe, row_id: int, e_values_override: Mappin
     library name or the name as typed to E and wins). Returns a dict with
     ``available`` False and a ``reason`` when some E-value is missing.
     """
-    table = _e_value_table()
+    table = e_value_table()
     over = {_norm(k): float(v) for k, v in (e_values_override or {}).items()}
     V = res.volume_prep
     per100 = lambda m: m / V / 10.0  # noqa: E731  kg / m³ → g / 100 mL

@@ -22,8 +22,9 @@ from solutions import cli
 from solutions.errors import RecipeError, SolutionsError, TargetError
 from solutions.evaluate import evaluate
 from solutions.recipe import read_recipe, resolve
+from solutions.limits import solubility_caveats
 from solutions.targeting import (PROPERTIES, Target, e_value_isotonic, e_values, eutectic,
-                                 find_row, recipe_csv, recipe_table, solubility_caveats,
+                                 find_row, recipe_csv, recipe_table,
                                  solubility_limit, solve_target)
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -448,10 +449,10 @@ def test_solubility_flag():
     assert solubility_limit("NaCl", 298.15)[0] == pytest.approx(0.3596)
     over = resolve(_recipe("ingredient,amount,unit\nsodium chloride,40,g\nwater,100,g"))
     under = resolve(_recipe("ingredient,amount,unit\nsodium chloride,30,g\nwater,100,g"))
-    cav = solubility_caveats(over, 298.15)
+    cav = solubility_caveats(over.composition, 298.15)
     assert len(cav) == 1 and cav[0].kind == "solubility"
     assert "35.96 g per 100 g water" in cav[0].message
-    assert solubility_caveats(under, 298.15) == []
+    assert solubility_caveats(under.composition, 298.15) == []
 
 
 def test_tables_shape_and_values():
