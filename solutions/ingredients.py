@@ -241,6 +241,10 @@ def read_library_file(path: str | Path) -> list[Ingredient]:
         df = pd.read_csv(path, dtype=str, keep_default_na=False, comment="#")
     except FileNotFoundError:
         raise IngredientError(str(path), "library file not found") from None
+    except pd.errors.EmptyDataError:
+        raise IngredientError(str(path), "the library file is empty: it needs a header line "
+                                         "with at least 'name' and 'formula' or "
+                                         "'molar_mass_g_per_mol'") from None
     except (pd.errors.ParserError, UnicodeDecodeError) as exc:
         raise IngredientError(str(path), f"cannot read the library file: {exc}") from None
     out = []
