@@ -56,6 +56,9 @@ HENRY_MODEL = "IAPWS G7-04 (2004) Henry's constant in H2O, ideal gas phase, dilu
 P_MAX = 1.0e6
 #: partial pressure above which a caveat names the neglected non-ideality [Pa]
 P_CAVEAT = 0.5e6
+#: below this temperature [K] the G7-04 CO2 constant departs from dedicated low-temperature
+#: correlations by more than 2.5 % (tests/test_gas_henry.py compares it with Weiss 1974)
+CO2_COLD = 283.15
 
 
 class GasInputError(SolutionsError, ValueError):
@@ -144,6 +147,12 @@ def liquid_state(res, T: float, gas, model: str = "nonideal") -> LiquidState:
     b_sol = float(comp.n[0].sum() / comp.m_solvent[0])
     cav = [*(c.tagged("density") for c in dres.caveats), *props.caveats, *so.caveats,
            *temperature_caveats(T, g)]
+    if g.key == "carbon-dioxide" and T < CO2_COLD:
+        cav.append(Caveat("model-range", "carbon dioxide below 10 °C: the IAPWS G7-04 Henry's "
+                          "constant is 2.5–5 % above Weiss (1974) (less CO2 dissolves per kPa, "
+                          "so the pressure for a given carbonation comes out that much higher); "
+                          "published low-temperature data differ among themselves by about 2 %",
+                          g.name, about="gas"))
     return LiquidState(float(T), rho, pv, w_water, b_sol, float(kH), f, so.model, S,
                        tuple(merge_caveats(cav)))
 
@@ -210,8 +219,20 @@ class GasResult:
         return out
 
 
+@dataclass(frozen=True)
+class _Liquid:
+    """A bare composition standing in for a resolved recipe."""
+
+    composition: object
+
+
 def _resolved(recipe):
+    from ..composition import Composition
     from ..recipe import ResolvedRecipe, resolve
+    if isinstance(recipe, Composition):
+        if recipe.N != 1:
+            raise GasInputError(f"one composition at a time, got {recipe.N}")
+        return _Liquid(recipe)
     return recipe if isinstance(recipe, ResolvedRecipe) else resolve(recipe)
 
 
@@ -238,7 +259,8 @@ def dissolved_gas(recipe, gas, T: float, *, partial_pressure: float | None = Non
                   model: str = "nonideal") -> GasResult:
     """Dissolved ``gas`` in the liquid of ``recipe`` at ``T`` [K], stated one of three ways.
 
-    recipe : a :class:`~solutions.recipe.Recipe` or :class:`~solutions.recipe.ResolvedRecipe`
+    recipe : a :class:`~solutions.recipe.Recipe`, :class:`~solutions.recipe.ResolvedRecipe`
+        or a one-row :class:`~solutions.composition.Composition`
     gas : gas key, name or formula (``solutions/data/iapws_henry.csv``)
     T : temperature of the liquid [K] (filling temperature for a sealed container)
     partial_pressure : partial pressure of the gas [Pa], or
