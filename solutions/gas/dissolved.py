@@ -33,6 +33,7 @@ from __future__ import annotations
 
 import csv
 import math
+import re
 from dataclasses import dataclass, field
 from functools import cache
 from importlib import resources
@@ -417,8 +418,8 @@ def dissolved_curve(recipe, gas, temperatures, *, partial_pressure: float | None
     """Dissolved gas against temperature at a fixed partial pressure or in air.
 
     temperatures : [K], each within the gas's range (see :func:`dissolved_gas`)
-    Returns {"T_C", "mg_per_L", "volumes", "mmol_per_kg", "notes"} (lists; notes: caveat
-    messages once each).
+    Returns {"T_C", "mg_per_L", "volumes", "mmol_per_kg", "notes"} (lists; notes: one caveat
+    message per kind of caveat and component, the first met along the curve).
     """
     res = _resolved(recipe)
     T_C, mg, vol, mmol, notes = [], [], [], [], []
@@ -430,9 +431,20 @@ def dissolved_curve(recipe, gas, temperatures, *, partial_pressure: float | None
         mg.append(d["dissolved_mg_per_L"])
         vol.append(d["volumes"])
         mmol.append(d["dissolved_mmol_per_kg"])
-        notes.extend(d["warnings"])
+        notes.extend(r.warnings)
     return {"T_C": T_C, "mg_per_L": mg, "volumes": vol, "mmol_per_kg": mmol,
-            "notes": list(dict.fromkeys(notes))}
+            "notes": _first_of_each(notes)}
+
+
+def _first_of_each(caveats) -> list[str]:
+    """Caveat messages, one for each wording that differs only in its numbers."""
+    seen, out = set(), []
+    for c in caveats:
+        k = re.sub(r"[-−]?\d+(?:\.\d+)?", "#", c.message)
+        if k not in seen:
+            seen.add(k)
+            out.append(c.message)
+    return out
 
 
 def sealed_pressure_curve(recipe, gas, T_fill: float, temperatures, *,
@@ -455,6 +467,6 @@ def sealed_pressure_curve(recipe, gas, T_fill: float, temperatures, *,
         out["total_kPa"].append(s["warm_pressure_kPa"])
         out["gauge_kPa"].append(s["warm_gauge_pressure_kPa"])
         out["partial_kPa"].append(s["warm_partial_pressure_kPa"])
-        out["notes"].extend(c.message for c in r.warnings)
-    out["notes"] = list(dict.fromkeys(out["notes"]))
+        out["notes"].extend(r.warnings)
+    out["notes"] = _first_of_each(out["notes"])
     return out
