@@ -87,7 +87,7 @@ def sechenov_factor(T, c_ions, h_ions, gas) -> np.ndarray:
     gas : gas key with a row in ``sechenov_gases.csv``
 
     >>> round(float(sechenov_factor(298.15, [[1.0, 1.0]], [0.1143, 0.0318], "oxygen")[0]), 4)
-    0.7145
+    0.7143
     """
     g = gas_table()[get_gas(gas).key]
     T = np.atleast_1d(np.asarray(T, dtype=float))
