@@ -6,6 +6,7 @@ evaluate RECIPE      every basis and property of a recipe (table, or ``--json``)
 target RECIPE        the amount of one ingredient that hits a property target
 scale RECIPE         weigh-out sheet for a batch
 dilute STOCK         how much stock and diluent make a target concentration
+gas RECIPE           dissolved gas: carbonation, dissolved oxygen, sealed headspace pressure
 ingredients          list the ingredient library
 
 Exit status: 0 success, 2 bad input (message on stderr), 3 target not reachable.
@@ -100,6 +101,40 @@ def build_parser() -> argparse.ArgumentParser:
     dl.add_argument("--ingredient", required=True, help="the ingredient whose concentration is set")
     dl.add_argument("--to", required=True, dest="to", help="target concentration, e.g. '0.9 %% w/v'")
     dl.add_argument("--final", required=True, help="final amount, e.g. '500 mL' or '1 kg'")
+
+    gs = sub.add_parser("gas", help="dissolved gas: carbonation, oxygen, sealed headspaces")
+    gs.add_argument("recipe", help="recipe file (CSV, TSV or XLSX) with ingredient, amount, unit")
+    gs.add_argument("--gas", required=True,
+                    help="carbon-dioxide, oxygen, nitrogen, argon, helium, … (or CO2, O2, N2)")
+    gs.add_argument("--temperature", "-T", default="25",
+                    help="temperature of the liquid (at filling, for a sealed container), "
+                         "e.g. 4, '4 °C', '39 F' (bare number: °C; default 25)")
+    gq = gs.add_mutually_exclusive_group(required=True)
+    gq.add_argument("--partial-pressure", help="partial pressure of the gas, e.g. '250 kPa' "
+                    "or '1.5 barg' (bare number: kPa absolute)")
+    gq.add_argument("--air", action="store_true",
+                    help="in equilibrium with air at --pressure (total)")
+    gq.add_argument("--volumes", help="carbonation: litres of gas (0 °C, 101.325 kPa) per "
+                    "litre of liquid; gives the pressure that holds it")
+    gs.add_argument("--pressure", "-P", default="101.325",
+                    help="total pressure of the air for --air (bare number: kPa; default "
+                         "101.325)")
+    gs.add_argument("--headspace-fraction", help="sealed container: headspace volume / "
+                    "container volume at filling, between 0 and 1 (e.g. 0.05)")
+    gs.add_argument("--warm-to", help="sealed container: the temperature it reaches, e.g. 35")
+    gs.add_argument("--trapped-air", default=None, help="sealed container: partial pressure "
+                    "of air trapped in the headspace at sealing (bare number: kPa; default 0)")
+    gs.add_argument("--rating", help="container rating, gauge (bare number: kPa gauge; "
+                    "'6 barg', '90 psig' also read)")
+    gs.add_argument("--ambient", default="101.325",
+                    help="ambient pressure for gauge figures (bare number: kPa; default "
+                         "101.325)")
+    gs.add_argument("--model", default="nonideal", choices=["nonideal", "ideal", "dilute"],
+                    help="activity model for the solution's vapor pressure")
+    gs.add_argument("--library", default=None, help="your own ingredient library CSV")
+    gs.add_argument("--decimal-comma", action="store_true",
+                    help="the recipe writes decimals with a comma (0,9)")
+    gs.add_argument("--json", action="store_true", help="print one JSON object")
 
     ing = sub.add_parser("ingredients", help="list the ingredient library")
     ing.add_argument("--library", default=None)
@@ -271,6 +306,74 @@ def cmd_dilute(args) -> int:
     return 0
 
 
+def _number_option(text, name: str) -> float:
+    from .units import read_number
+    x = read_number(text)
+    if x is None:
+        raise SolutionsError(f"{name} needs a number")
+    return x
+
+
+def cmd_gas(args) -> int:
+    from .gas import dissolved_gas
+    from .units import parse_pressure, parse_temperature
+    _, recipe = _load(args)
+    ambient = parse_pressure(args.ambient)
+    T = parse_temperature(args.temperature)
+    kw = dict(ambient=ambient, model=args.model)
+    if args.partial_pressure is not None:
+        kw["partial_pressure"] = parse_pressure(args.partial_pressure, ambient=ambient)
+    elif args.volumes is not None:
+        kw["volumes"] = _number_option(args.volumes, "--volumes")
+    else:
+        kw["air"] = True
+        kw["total_pressure"] = parse_pressure(args.pressure, ambient=ambient)
+    if args.headspace_fraction is not None:
+        kw["headspace_fraction"] = _number_option(args.headspace_fraction, "--headspace-fraction")
+    if args.warm_to is not None:
+        kw["warm_to"] = parse_temperature(args.warm_to)
+    if args.trapped_air is not None:
+        kw["trapped_air"] = parse_pressure(args.trapped_air, ambient=ambient)
+    if args.rating is not None:
+        # the rating is a gauge pressure: a gauge spelling or a bare number is read as gauge
+        kw["rating"] = parse_pressure(args.rating, ambient=0.0)
+    res = dissolved_gas(recipe, args.gas, T, **kw)
+    out = res.to_dict()
+    if args.json:
+        print(dumps(out))
+    else:
+        print(gas_text(out))
+    return 0
+
+
+def gas_text(d: dict) -> str:
+    """A short plain-text summary of a gas result's dict."""
+    def f(x, fmt=".4g"):
+        return "—" if x is None else format(x, fmt)
+    lines = [f"{d['gas_name']} ({d['formula']}) at {f(d['temperature_C'])} °C",
+             f"  Henry's constant in water   {f(d['henry_constant_GPa'])} GPa  ({d['henry_model']})",
+             f"  salting-out factor          {f(d['salting_out_factor'])}  ({d['salting_out_model']})",
+             f"  partial pressure            {f(d['partial_pressure_kPa'])} kPa",
+             f"  total pressure              {f(d['total_pressure_kPa'])} kPa"
+             f"  (gauge {f(d['gauge_pressure_kPa'])} kPa over {f(d['ambient_pressure_kPa'])} kPa)",
+             f"  dissolved                   {f(d['dissolved_mg_per_L'])} mg/L, "
+             f"{f(d['dissolved_mmol_per_kg'])} mmol/kg water, mole fraction "
+             f"{f(d['dissolved_mole_fraction'])}",
+             f"  volumes                     {f(d['volumes'])} L/L"]
+    if "warm_temperature_C" in d:
+        lines += [f"sealed container, headspace {f(d['headspace_fraction'])} of the volume",
+                  f"  at filling                  {f(d['fill_total_pressure_kPa'])} kPa "
+                  f"(gauge {f(d['fill_gauge_pressure_kPa'])} kPa)",
+                  f"  at {f(d['warm_temperature_C'])} °C"
+                  f"{' ' * max(1, 23 - len(f(d['warm_temperature_C'])))}"
+                  f"{f(d['warm_pressure_kPa'])} kPa (gauge {f(d['warm_gauge_pressure_kPa'])} kPa)"]
+    for w in d["warnings"]:
+        lines.append(f"warning: {w}")
+    for c in d["cautions"]:
+        lines.append(f"caution: {c}")
+    return "\n".join(lines)
+
+
 def cmd_ingredients(args) -> int:
     from .ingredients import default_library
     lib = default_library()
@@ -292,7 +395,7 @@ def cmd_ingredients(args) -> int:
 
 
 COMMANDS = {"evaluate": cmd_evaluate, "target": cmd_target, "scale": cmd_scale,
-            "dilute": cmd_dilute, "ingredients": cmd_ingredients}
+            "dilute": cmd_dilute, "gas": cmd_gas, "ingredients": cmd_ingredients}
 
 
 def main(argv=None) -> int:
