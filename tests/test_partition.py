@@ -97,6 +97,9 @@ def test_bean_1972_binding_term_form():
     r = distribute("phenoxyethanol", 0.5, 1.0 * PCT, K=2.0, surfactant=5.0 * PCT, binding=0.4)
     assert r.R_binding == pytest.approx(3.0, rel=1e-12)
     assert r.u_free / PCT == pytest.approx(0.4, rel=1e-12)
+    # the whole aqueous phase (free + bound) holds C_A = R C_w (Bean 1972), 1.2 % w/v here
+    assert r.c_water / PCT == pytest.approx(1.2, rel=1e-12)
+    assert 0.5 * r.c_water + 0.5 * r.c_oil == pytest.approx(1.0 * PCT, rel=1e-12)
 
 
 def test_anderson_chow_1967_unionized_benzoic_acid_at_pKa():
