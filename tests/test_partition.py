@@ -265,3 +265,36 @@ def test_cli_exit_codes(capsys):
                  "--total", "4 g/L", "--partition", "0.067"]) == 0
     out = capsys.readouterr().out
     assert "CAUTION" in out and "free un-ionized" in out
+
+
+# ------------------------------------------------------------------------- dashboard
+def _partition_page():
+    import streamlit as st
+
+    from solutions.ui.partition import render_partition
+    render_partition(st)
+
+
+def test_dashboard_section_shows_the_library_numbers():
+    """The section's metrics are the library's values under the same inputs (AppTest)."""
+    from streamlit.testing.v1 import AppTest
+    at = AppTest.from_function(_partition_page, default_timeout=60)
+    at.session_state["pt_ing"] = "benzoic_acid"
+    at.session_state["pt_oil"] = "vegetable_oil"
+    at.run()
+    assert not at.exception
+    r = distribute("benzoic_acid", 0.2, 2.0, pH=5.0, oil="vegetable_oil")
+    shown = {m.label: m.value for m in at.metric}
+    assert shown["Free un-ionized in water"] == f"{r.u_free:.4g} g/L"
+    assert shown["Oil phase"] == f"{r.c_oil:.4g} g/L"
+    assert any("Preservative efficacy" in i.value for i in at.info)
+
+
+def test_dashboard_partition_chart_data():
+    from solutions.ui.partition import partition_chart, partition_request
+    out = partition_request("sorbic_acid", 0.3, 1.0, pH=4.0, oil="vegetable_oil")
+    assert not out.error and set(out.profile["phase"]) == {
+        "Water phase, all forms", "Oil phase", "Free un-ionized in water"}
+    partition_chart(out.profile, 4.0).to_dict()
+    bad = partition_request("methylparaben", 0.2, 1.0, target_free_g_per_L=3.0)
+    assert bad.error.startswith("Target not reachable") and bad.nearest > 0

@@ -231,3 +231,32 @@ def test_cli_bad_data_exit_2(tmp_path, capsys):
     assert main(["fit-vapor-pressure", str(p)]) == 2
     assert "at least 3 points" in capsys.readouterr().err
     assert main(["fit-vapor-pressure", str(tmp_path / "missing.csv")]) == 2
+
+
+# ------------------------------------------------------------------------- dashboard
+def _vp_page():
+    import streamlit as st
+
+    from solutions.ui.vpfit import render_vpfit
+    render_vpfit(st)
+
+
+def test_dashboard_section_shows_the_library_numbers():
+    """The example table's ΔH and normal boiling point on the page are the library's (AppTest)."""
+    from streamlit.testing.v1 import AppTest
+
+    from solutions.ui.vpfit import example_table, fit_table
+    at = AppTest.from_function(_vp_page, default_timeout=60).run()
+    assert not at.exception
+    d = fit_table(example_table()).result
+    shown = {m.label: m.value for m in at.metric}
+    assert shown["ΔH_vap (Clausius–Clapeyron)"] == f"{d['dH_vap_kJ_per_mol']:.2f} kJ/mol"
+    assert shown["Normal boiling point"] == f"{d['normal_boiling_point_C']:.2f} °C"
+
+
+def test_dashboard_charts_and_errors():
+    from solutions.ui.vpfit import antoine_chart, cc_chart, example_table, fit_table
+    out = fit_table(example_table(), 50.0)
+    cc_chart(out.result, out.points).to_dict()
+    antoine_chart(out.result, out.points).to_dict()
+    assert "at least 3 points" in fit_table("temperature_C,pressure_kPa\n20,2.3\n").error
