@@ -112,6 +112,7 @@ class PartitionEntry:
     M: float
     solubility: float | None
     solubility_source: str
+    solubility_T_C: float | None = None
 
     @property
     def is_salt(self) -> bool:
@@ -165,7 +166,8 @@ def partition_data() -> dict[str, PartitionEntry]:
             parent=r["parent"].strip(), log_Kow=_opt(r["log_Kow"]),
             log_Kow_source=r["log_Kow_source"], pKa=_opt(r["pKa"]), pKa_source=r["pKa_source"],
             M=_molar_mass(r["key"], r["formula"]), solubility=sol,
-            solubility_source=r["solubility_source"])
+            solubility_source=r["solubility_source"],
+            solubility_T_C=_opt(r["solubility_T_C"]))
     return out
 
 
@@ -424,7 +426,8 @@ def distribute(ingredient: str, phi: float, c_total: float, *, pH: float | None 
     if sol is not None and u > sol:
         cav.append(Caveat("solubility", (
             f"The free un-ionized {parent.name} in the water phase would be {u:.4g} g/L, above "
-            f"its water solubility {sol:g} g/L at 25 °C: it cannot all dissolve, and this model "
+            f"its water solubility {sol:g} g/L at {parent.solubility_T_C:g} °C: it cannot all "
+            "dissolve, and this model "
             "has no solid phase; phase concentrations are not given."), parent.key,
             about="partition"))
         res.c_water = res.c_oil = res.u_free = res.fraction_in_oil = None
@@ -437,7 +440,8 @@ def distribute(ingredient: str, phi: float, c_total: float, *, pH: float | None 
         if sol is not None and target_free > sol:
             raise TargetError(
                 f"a free un-ionized {parent.name} concentration of {target_free:g} g/L in the "
-                f"water phase is above its water solubility ({sol:g} g/L at 25 °C)",
+                f"water phase is above its water solubility ({sol:g} g/L at "
+                f"{parent.solubility_T_C:g} °C)",
                 nearest=float(total_for_free(sol, phi, K, f, kS)) / to_parent, unit="g/L total")
         res.target_free = target_free
         res.c_total_needed = float(total_for_free(target_free, phi, K, f, kS)) / to_parent

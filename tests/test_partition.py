@@ -188,6 +188,8 @@ def test_inverse_matches_forward_and_solubility_limit():
     need = total_needed("sorbic_acid", 0.25, 0.5, pH=5.0, oil="vegetable_oil")
     r = distribute("sorbic_acid", 0.25, need, pH=5.0, oil="vegetable_oil")
     assert r.u_free == pytest.approx(0.5, rel=1e-12)
+    assert not any(c.kind == "solubility-unchecked" for c in r.caveats)  # 1.56 g/L is cited
+    r = distribute("propylparaben", 0.25, 1.0, pH=5.0, target_free=0.1)
     assert any(c.kind == "solubility-unchecked" for c in r.caveats)
     with pytest.raises(TargetError, match="above its water solubility"):
         distribute("methylparaben", 0.2, 1.0, target_free=3.0)
