@@ -8,6 +8,8 @@ scale RECIPE         weigh-out sheet for a batch
 dilute STOCK         how much stock and diluent make a target concentration
 gas RECIPE           dissolved gas: carbonation, dissolved oxygen, sealed headspace pressure
 ingredients          list the ingredient library
+partition            where a preservative goes in an emulsion (oil, water, free un-ionized)
+fit-vapor-pressure   Clausius–Clapeyron and Antoine fits of measured vapor pressures
 
 Exit status: 0 success, 2 bad input (message on stderr), 3 target not reachable.
 Temperatures are °C and pressures kPa on the command line; the library is SI inside.
@@ -139,6 +141,41 @@ def build_parser() -> argparse.ArgumentParser:
     ing = sub.add_parser("ingredients", help="list the ingredient library")
     ing.add_argument("--library", default=None)
     ing.add_argument("--json", action="store_true")
+
+    pt = sub.add_parser("partition", help="preservative distribution between oil and water of "
+                                          "an emulsion")
+    pt.add_argument("--ingredient", required=True, help="preservative (library key or name)")
+    pt.add_argument("--oil-fraction", required=True,
+                    help="oil volume fraction of the emulsion, 0–1 (or e.g. '20 %%')")
+    pt.add_argument("--total", required=True,
+                    help="total concentration per volume of emulsion, e.g. '0.2 %% w/v' or '2 g/L'")
+    pt.add_argument("--ph", default=None, help="pH of the water phase (without it ionization "
+                                                "is ignored)")
+    kg = pt.add_mutually_exclusive_group()
+    kg.add_argument("--log-kow", default=None, help="log K_ow of the un-ionized form "
+                                                     "(overrides the data table)")
+    kg.add_argument("--partition", default=None, dest="partition_K",
+                    help="measured oil/water partition coefficient of the un-ionized form")
+    pt.add_argument("--oil", default=None,
+                    help="oil type for the octanol-to-oil relation (default octanol, with a "
+                         "warning); known: octanol, vegetable_oil")
+    pt.add_argument("--surfactant", default=None,
+                    help="surfactant concentration in the water phase, e.g. '2 %% w/v'")
+    pt.add_argument("--binding", default=None,
+                    help="micellar binding constant of the un-ionized form, per %% w/v of "
+                         "surfactant (R = 1 + K·S)")
+    pt.add_argument("--target-free", default=None,
+                    help="wanted free un-ionized concentration in the water phase, e.g. "
+                         "'0.05 %% w/v': adds the total needed")
+    pt.add_argument("--json", action="store_true")
+
+    vp = sub.add_parser("fit-vapor-pressure", help="fit measured vapor pressures")
+    vp.add_argument("data", help="CSV with temperature_C|K|F and pressure_kPa|mmHg|bar|psi… "
+                                 "columns")
+    vp.add_argument("--at-pressure", default=None,
+                    help="also give the boiling point at this pressure, e.g. '50 kPa' "
+                         "(bare number: kPa)")
+    vp.add_argument("--json", action="store_true")
     return ap
 
 
@@ -394,8 +431,126 @@ def cmd_ingredients(args) -> int:
     return 0
 
 
+def _number(text: str, option: str) -> float:
+    from .units import read_number
+    try:
+        x = read_number(text)
+    except ValueError as exc:
+        raise SolutionsError(f"{option}: {exc}") from None
+    if x is None:
+        raise SolutionsError(f"{option} is empty")
+    return x
+
+
+def _mass_per_volume(text: str, option: str) -> float:
+    """A typed concentration such as '0.2 % w/v' or '2 g/L' in kg/m³ (mass per volume only)."""
+    import re
+    from .units import Basis, parse_unit
+    m = re.match(r"^\s*([-+]?[0-9.,eE+-]*[0-9])\s*(.*?)\s*$", str(text))
+    if not m:
+        raise SolutionsError(f"{option}: write a number and a unit, e.g. '0.2 % w/v', got "
+                             f"{text!r}")
+    x = _number(m.group(1), option)
+    if not m.group(2):
+        raise SolutionsError(f"{option}: {text!r} has no unit; write e.g. '0.2 % w/v' or '2 g/L'")
+    amt = parse_unit(m.group(2))
+    if amt.basis is not Basis.MASS_PER_VOLUME:
+        raise SolutionsError(f"{option}: {text!r} is {amt.basis.value}; give a mass per volume "
+                             "(% w/v, g/L, mg/mL)")
+    if x < 0:
+        raise SolutionsError(f"{option}: a concentration cannot be negative, got {text!r}")
+    return x * amt.value_si
+
+
+def cmd_partition(args) -> int:
+    from .partition import distribute
+    frac = str(args.oil_fraction).strip()
+    phi = _number(frac[:-1], "--oil-fraction") / 100.0 if frac.endswith("%") else \
+        _number(frac, "--oil-fraction")
+    res = distribute(
+        args.ingredient, phi, _mass_per_volume(args.total, "--total"),
+        pH=None if args.ph is None else _number(args.ph, "--ph"),
+        log_Kow=None if args.log_kow is None else _number(args.log_kow, "--log-kow"),
+        K=None if args.partition_K is None else _number(args.partition_K, "--partition"),
+        oil=args.oil,
+        surfactant=None if args.surfactant is None else _mass_per_volume(args.surfactant,
+                                                                         "--surfactant"),
+        binding=None if args.binding is None else _number(args.binding, "--binding"),
+        target_free=None if args.target_free is None else _mass_per_volume(args.target_free,
+                                                                           "--target-free"))
+    out = res.to_dict()
+    if args.json:
+        print(dumps(out))
+        return 0
+
+    def g(x, unit=" g/L"):
+        return "not given (see warnings)" if x is None else f"{x:.4g}{unit}"
+    lines = [f"{out['ingredient']} in an emulsion with oil volume fraction {out['oil_volume_fraction']:g}",
+             f"  partitions as               {out['partitions_as']}",
+             f"  log K_ow                    {g(out['log_Kow'], '')}",
+             f"  K oil/water (un-ionized)    {out['partition_coefficient_unionized']:.4g}",
+             f"  pKa / pH / un-ionized       {g(out['pKa'], '')} / {g(out['pH'], '')} / "
+             f"{out['fraction_unionized']:.4g}",
+             f"  distribution ratio D        {out['distribution_ratio']:.4g}",
+             f"  water phase (all forms)     {g(out['water_phase_g_per_L'])}",
+             f"  oil phase                   {g(out['oil_phase_g_per_L'])}",
+             f"  free un-ionized in water    {g(out['free_unionized_water_g_per_L'])}",
+             f"  fraction in the oil         {g(out['fraction_in_oil'], '')}"]
+    if "total_needed_g_per_L" in out:
+        lines.append(f"  total to add for {out['target_free_unionized_water_g_per_L']:.4g} g/L free: "
+                     f"{g(out['total_needed_g_per_L'])} ({out['ingredient']} as weighed)")
+    for w in out["warnings"]:
+        lines.append(f"warning: {w}")
+    for c in out["cautions"]:
+        lines.append(f"CAUTION: {c}")
+    print("\n".join(lines))
+    return 0
+
+
+def cmd_fit_vapor_pressure(args) -> int:
+    from .units import parse_pressure
+    from .vpfit import fit_vapor_pressure, read_vapor_pressure_table
+    data = read_vapor_pressure_table(args.data)
+    P_at = None
+    if args.at_pressure is not None:
+        try:
+            P_at = parse_pressure(args.at_pressure)
+        except ValueError as exc:
+            raise SolutionsError(f"--at-pressure: {exc}") from None
+    fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, at_pressure=P_at)
+    out = fit.to_dict()
+    if data.gauge:
+        out["warnings"].insert(0, "the pressure column is gauge: 101.325 kPa was added to "
+                                  "every value")
+    if args.json:
+        print(dumps(out))
+        return 0
+
+    def g(x, f=".2f", unit=" °C"):
+        return "not given (see warnings)" if x is None else f"{x:{f}}{unit}"
+    lo, hi = out["dH_vap_ci95_kJ_per_mol"]
+    lines = [f"{out['n_points']} points",
+             f"  ΔH_vap (Clausius–Clapeyron)  {out['dH_vap_kJ_per_mol']:.3f} ± "
+             f"{out['dH_vap_stderr_kJ_per_mol']:.3f} kJ/mol (95 %: {lo:.3f}…{hi:.3f})"]
+    a = out["antoine"]
+    if a:
+        lines.append(f"  Antoine  log10(p/kPa) = {a['A']:.6g} − {a['B']:.6g}/({a['C']:.6g} + t/°C)"
+                     f", valid {a['T_min_C']:.1f}…{a['T_max_C']:.1f} °C")
+        lines.append(f"  normal boiling point         {g(out['normal_boiling_point_C'])}")
+    if "boiling_point_at_pressure_C" in out:
+        lines.append(f"  boiling point at {out['at_pressure_kPa']:g} kPa     "
+                     f"{g(out['boiling_point_at_pressure_C'])}")
+    if out["outliers"]:
+        lines.append("  outliers (rows)              " + ", ".join(map(str, out["outliers"])))
+    lines.append("note: " + out["notes"][0])
+    lines += [f"warning: {w}" for w in out["warnings"]]
+    print("\n".join(lines))
+    return 0
+
+
 COMMANDS = {"evaluate": cmd_evaluate, "target": cmd_target, "scale": cmd_scale,
-            "dilute": cmd_dilute, "gas": cmd_gas, "ingredients": cmd_ingredients}
+            "dilute": cmd_dilute, "gas": cmd_gas, "ingredients": cmd_ingredients,
+            "partition": cmd_partition, "fit-vapor-pressure": cmd_fit_vapor_pressure}
 
 
 def main(argv=None) -> int:
