@@ -27,7 +27,7 @@ from scipy.optimize import brentq
 from .colligative import P_ATM
 from .composition import Composition
 from .density import solution_density
-from .errors import Caveat, RecipeError, SolutionsError, TargetError, merge_caveats
+from .errors import Caveat, DataError, RecipeError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, parse_batch, resolve
@@ -47,7 +47,7 @@ def solvent_density(res_or_comp, T: float) -> float:
         return float(water_density(T))
     if comp.solvent.rho_pure:
         return float(comp.solvent.rho_pure)
-    raise SolutionsError(f"no liquid density for the solvent {comp.solvent.name}")
+    raise DataError(f"no liquid density for the solvent {comp.solvent.name}")
 
 
 def _amount_text(row: RecipeRow) -> tuple[object, str]:

@@ -431,17 +431,6 @@ def cmd_ingredients(args) -> int:
     return 0
 
 
-def _number(text: str, option: str) -> float:
-    from .units import read_number
-    try:
-        x = read_number(text)
-    except ValueError as exc:
-        raise SolutionsError(f"{option}: {exc}") from None
-    if x is None:
-        raise SolutionsError(f"{option} is empty")
-    return x
-
-
 def _mass_per_volume(text: str, option: str) -> float:
     """A typed concentration such as '0.2 % w/v' or '2 g/L' in kg/m³ (mass per volume only)."""
     import re
@@ -450,7 +439,7 @@ def _mass_per_volume(text: str, option: str) -> float:
     if not m:
         raise SolutionsError(f"{option}: write a number and a unit, e.g. '0.2 % w/v', got "
                              f"{text!r}")
-    x = _number(m.group(1), option)
+    x = _number(option, m.group(1))
     if not m.group(2):
         raise SolutionsError(f"{option}: {text!r} has no unit; write e.g. '0.2 % w/v' or '2 g/L'")
     amt = parse_unit(m.group(2))
@@ -465,17 +454,17 @@ def _mass_per_volume(text: str, option: str) -> float:
 def cmd_partition(args) -> int:
     from .partition import distribute
     frac = str(args.oil_fraction).strip()
-    phi = _number(frac[:-1], "--oil-fraction") / 100.0 if frac.endswith("%") else \
-        _number(frac, "--oil-fraction")
+    phi = _number("--oil-fraction", frac[:-1]) / 100.0 if frac.endswith("%") else \
+        _number("--oil-fraction", frac)
     res = distribute(
         args.ingredient, phi, _mass_per_volume(args.total, "--total"),
-        pH=None if args.ph is None else _number(args.ph, "--ph"),
-        log_Kow=None if args.log_kow is None else _number(args.log_kow, "--log-kow"),
-        K=None if args.partition_K is None else _number(args.partition_K, "--partition"),
+        pH=None if args.ph is None else _number("--ph", args.ph),
+        log_Kow=None if args.log_kow is None else _number("--log-kow", args.log_kow),
+        K=None if args.partition_K is None else _number("--partition", args.partition_K),
         oil=args.oil,
         surfactant=None if args.surfactant is None else _mass_per_volume(args.surfactant,
                                                                          "--surfactant"),
-        binding=None if args.binding is None else _number(args.binding, "--binding"),
+        binding=None if args.binding is None else _number("--binding", args.binding),
         target_free=None if args.target_free is None else _mass_per_volume(args.target_free,
                                                                            "--target-free"))
     out = res.to_dict()

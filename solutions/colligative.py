@@ -36,7 +36,7 @@ from scipy.optimize import elementwise
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
-from .errors import Caveat, OutOfRangeError, SolutionsError, merge_caveats
+from .errors import Caveat, DataError, OutOfRangeError, merge_caveats
 from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
                     supercooled_vapor_pressure, water_density)
@@ -210,12 +210,12 @@ def _freezing_nonaqueous(comp, terms, bs, model):
     c = _constants(comp)
     caveats = []
     if c.melting_point_K is None:
-        raise SolutionsError(f"no melting point for {comp.solvent.name} in solvent_constants.csv")
+        raise DataError(f"no melting point for {comp.solvent.name} in solvent_constants.csv")
     nu_b = comp.particle_molality()
     if model == "dilute" or c.enthalpy_of_fusion_J_per_mol is None:
         if c.Kf_K_kg_per_mol is None:
             if c.enthalpy_of_fusion_J_per_mol is None:
-                raise SolutionsError(f"no cryoscopic data for {comp.solvent.name}")
+                raise DataError(f"no cryoscopic data for {comp.solvent.name}")
             Kf = R * c.melting_point_K ** 2 * comp.solvent.M / c.enthalpy_of_fusion_J_per_mol
             caveats.append(Caveat("model-range", f"K_f of {comp.solvent.name} computed from its "
                                   "enthalpy of fusion (R T_m² M / ΔH_fus)", comp.solvent.name))
@@ -273,7 +273,7 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
     if model == "dilute":
         c = _constants(comp)
         if c.Kb_K_kg_per_mol is None:
-            raise SolutionsError(f"no ebullioscopic constant for {comp.solvent.name}")
+            raise DataError(f"no ebullioscopic constant for {comp.solvent.name}")
         dT = c.Kb_K_kg_per_mol * nu_b
         if np.any(np.abs(P - P_ATM) > 1.0):
             caveats.append(Caveat("model-range", "the dilute model's K_b is the 1 atm value; "

@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .errors import InputError
 from .ingredients import Ingredient
 
 __all__ = ["Composition"]
@@ -41,9 +42,9 @@ class Composition:
         n = np.atleast_2d(np.asarray(self.n, dtype=float))
         ms = np.atleast_1d(np.asarray(self.m_solvent, dtype=float))
         if n.shape[1] != len(self.solutes):
-            raise ValueError(f"n has {n.shape[1]} columns for {len(self.solutes)} solutes")
+            raise InputError(f"n has {n.shape[1]} columns for {len(self.solutes)} solutes")
         if ms.shape != (n.shape[0],):
-            raise ValueError(f"m_solvent shape {ms.shape} does not match n rows {n.shape[0]}")
+            raise InputError(f"m_solvent shape {ms.shape} does not match n rows {n.shape[0]}")
         object.__setattr__(self, "n", n)
         object.__setattr__(self, "m_solvent", ms)
         if not self.labels:

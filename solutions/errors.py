@@ -85,6 +85,14 @@ class RecipeError(SolutionsError, ValueError):
         super().__init__(prefix + reason)
 
 
+class InputError(SolutionsError, ValueError):
+    """A value given to the tool (a target, a setting, an array shape) cannot be used."""
+
+
+class DataError(SolutionsError, LookupError):
+    """The data a computation needs are not in the tool's data files (the message names them)."""
+
+
 class OptionError(SolutionsError, ValueError):
     """A command-line option or a page setting has a value the tool cannot use."""
 

@@ -40,17 +40,14 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass, field, replace
-from functools import cache
-from importlib import resources
 from typing import Callable, Mapping
 
 import numpy as np
-import pandas as pd
 from scipy.optimize import brentq
 
 from .colligative import P_ATM, colligative
 from .density import solution_density
-from .errors import Caveat, IngredientError, RecipeError, SolutionsError, TargetError, merge_caveats
+from .errors import Caveat, IngredientError, InputError, RecipeError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Ingredient, Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
@@ -119,22 +116,22 @@ class Target:
 
     def __post_init__(self):
         if self.quantity not in PROPERTIES:
-            raise SolutionsError(f"unknown target property {self.quantity!r}; choose one of "
+            raise InputError(f"unknown target property {self.quantity!r}; choose one of "
                                  + ", ".join(PROPERTIES))
         if not math.isfinite(self.value):
-            raise SolutionsError(f"the target {self.quantity} must be a finite number")
+            raise InputError(f"the target {self.quantity} must be a finite number")
         if self.quantity == "concentration":
             if self.amount is None or self.component is None:
-                raise SolutionsError("a concentration target needs a component and a unit")
+                raise InputError("a concentration target needs a component and a unit")
             if self.amount.basis not in _CONC_BASES:
-                raise SolutionsError(f"{self.amount.text!r} is not a concentration; use % w/w, "
+                raise InputError(f"{self.amount.text!r} is not a concentration; use % w/w, "
                                      "% w/v, % v/v, ppm, g/L, mg/mL, M, mM or mol/kg")
         if self.quantity == "water_activity" and not (0.0 < self.value < 1.0):
-            raise SolutionsError(f"a water-activity target must lie between 0 and 1, got "
+            raise InputError(f"a water-activity target must lie between 0 and 1, got "
                                  f"{self.value:g}")
         if self.quantity in ("osmolality", "osmolarity", "density", "vapor_pressure",
                              "freezing_point_depression", "concentration") and self.value < 0:
-            raise SolutionsError(f"a {PROPERTIES[self.quantity].label} target cannot be "
+            raise InputError(f"a {PROPERTIES[self.quantity].label} target cannot be "
                                  f"negative, got {self.display(self.value):g} {self.unit}")
 
     # --- constructors (SI in) ----------------------------------------------------------
@@ -154,7 +151,7 @@ class Target:
         """Osmolality ``b`` [mol/kg], or ``"isotonic"`` (``isotonic`` [mol/kg])."""
         if isinstance(b, str):
             if b.strip().lower() not in ("isotonic", "iso"):
-                raise SolutionsError(f"osmolality {b!r}: give a number (mOsm/kg) or 'isotonic'")
+                raise InputError(f"osmolality {b!r}: give a number (mOsm/kg) or 'isotonic'")
             return cls("osmolality", float(isotonic), isotonic=True)
         return cls("osmolality", float(b), isotonic=abs(float(b) - isotonic) <= 1e-12)
 
@@ -353,9 +350,9 @@ def component_concentration(res: ResolvedRecipe, row_id: int, amount: Amount, rh
     if b is Basis.VOLUME_FRACTION:
         rho_i = ing.rho_pure if not ing.is_water else 998.2
         if not rho_i:
-            raise SolutionsError(f"% v/v of {ing.name} needs its liquid density")
+            raise InputError(f"% v/v of {ing.name} needs its liquid density")
         return m / rho_i / V
-    raise SolutionsError(f"{amount.text!r} is not a concentration basis")
+    raise InputError(f"{amount.text!r} is not a concentration basis")
 
 
 @dataclass
@@ -528,7 +525,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
     lib = library or default_library()
     cond = _Conditions(float(T), float(P), model, rho_measured, float(T_prep))
     if rho_measured is not None and target.quantity == "density":
-        raise SolutionsError("a density target cannot be solved with a measured density "
+        raise InputError("a density target cannot be solved with a measured density "
                              "(--density): drop the measured value")
     row, ing = find_row(recipe, vary, lib)
     sv = _solvent_row(recipe)
