@@ -79,16 +79,12 @@ def build_parser() -> argparse.ArgumentParser:
     _common(tg)
     tg.add_argument("--vary", required=True, help="the ingredient to adjust (as in the recipe)")
     g = tg.add_mutually_exclusive_group(required=True)
-    g.add_argument("--freezing-point", help="target freezing point, °C")
-    g.add_argument("--freezing-point-depression", help="target depression, K")
-    g.add_argument("--osmolality", help="target osmolality, mOsm/kg, or 'isotonic'")
-    g.add_argument("--osmolarity", help="target calculated osmolarity, mOsm/L")
-    g.add_argument("--water-activity", help="target water activity (0–1)")
-    g.add_argument("--boiling-point", help="target boiling point at --pressure, °C")
-    g.add_argument("--vapor-pressure",
-                   help="target vapor pressure at --temperature, kPa")
-    g.add_argument("--target-density", "--density-target", dest="target_density",
-                   help="target solution density at --temperature, g/mL")
+    from .properties import targets
+    for name, prop in targets().items():
+        unit = f", {prop.unit}" if prop.unit else ""
+        extra = " or 'isotonic'" if name == "osmolality" else ""
+        g.add_argument(prop.flag, dest=f"target_{name}", metavar="VALUE",
+                       help=f"target {prop.label.lower()}{unit}{extra}")
     g.add_argument("--concentration", nargs=2, metavar=("INGREDIENT", "VALUE_UNIT"),
                    help="target concentration of another ingredient, e.g. NaCl '0.9 %% w/v'")
     tg.add_argument("--isotonic-mOsm", default="290",
@@ -269,37 +265,29 @@ def _number(option: str, text) -> float:
 
 
 def _target(args):
-    """The target asked for on the command line (°C, K, mOsm/kg, mOsm/L, kPa, g/mL)."""
+    """The target asked for on the command line, read through the property registry (°C and
+    kPa options accept other units; the rest are numbers in the registry's display unit)."""
+    from .properties import targets
     from .targeting import Target
     iso = _number("--isotonic-mOsm", args.isotonic_mOsm)
     if not 100 <= iso <= 1000:
         raise OptionError("--isotonic-mOsm", args.isotonic_mOsm, "isotonic is taken as "
                           "100–1000 mOsm/kg (290 by default, common practice)")
     iso *= 1e-3
-    if args.freezing_point is not None:
-        from .units import parse_temperature
-        try:
-            return Target.freezing_point(parse_temperature(args.freezing_point))
-        except (UnitParseError, NumberError) as exc:
-            raise OptionError("--freezing-point", args.freezing_point, exc.reason) from None
-    if args.freezing_point_depression is not None:
-        return Target.freezing_point_depression(
-            _number("--freezing-point-depression", args.freezing_point_depression))
-    if args.osmolality is not None:
-        text = str(args.osmolality).strip()
-        if text.lower() in ("isotonic", "iso"):
+    for name, prop in targets().items():
+        text = getattr(args, f"target_{name}", None)
+        if text is None:
+            continue
+        if name == "osmolality" and str(text).strip().lower() in ("isotonic", "iso"):
             return Target.osmolality("isotonic", iso)
-        return Target.osmolality(_number("--osmolality", text) * 1e-3, iso)
-    if args.osmolarity is not None:
-        return Target.osmolarity(_number("--osmolarity", args.osmolarity))
-    if args.water_activity is not None:
-        return Target.water_activity(_number("--water-activity", args.water_activity))
-    if args.boiling_point is not None:
-        return Target.boiling_point(_temperature("--boiling-point", args.boiling_point))
-    if args.vapor_pressure is not None:
-        return Target.vapor_pressure(_pressure("--vapor-pressure", args.vapor_pressure))
-    if args.target_density is not None:
-        return Target.density(_number("--target-density", args.target_density) * 1e3)
+        if prop.unit == "°C":
+            value = _temperature(prop.flag, text)
+        elif prop.unit == "kPa":
+            value = _pressure(prop.flag, text)
+        else:
+            value = prop.to_si(_number(prop.flag, text))
+        return Target(name, value, isotonic=(name == "osmolality"
+                                             and abs(value - iso) <= 1e-12))
     comp, text = args.concentration
     return Target.concentration(comp, text)
 

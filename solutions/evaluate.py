@@ -24,12 +24,19 @@ from . import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
 from .errors import Caveat, OptionError, merge_caveats
+from .properties import PROPERTIES, Property
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
 
 __all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows", "USES"]
 
 #: what a product is for: "any" keeps every caution, "technical" (not for the body) drops tonicity
 USES = ("any", "technical")
+
+# two figures shown beside the vapor pressure (not properties in their own right)
+_VP_LIQUID = Property("vapor_pressure_liquid_kPa", "Vapor pressure over the liquid", "kPa", 1e-3,
+                      0.0, 4, "props", "vapor_pressure_liquid")
+_VP_PURE = Property("vapor_pressure_pure_kPa", "Vapor pressure of the pure solvent", "kPa", 1e-3,
+                    0.0, 4, "props", "vapor_pressure_pure")
 
 
 @dataclass
@@ -58,44 +65,37 @@ class Evaluation:
     def components(self) -> list[dict]:
         return component_table(self.resolved, self.rho)
 
+    @property
+    def mass(self) -> float:
+        """Solution mass [kg]."""
+        return float(self.composition.m_total[0])
+
+    def value(self, prop: Property, dilute: bool = False) -> float | None:
+        """One property's display value from the registry row ``prop``; ``None`` where it
+        cannot be computed (a caveat says why) or does not apply (water only)."""
+        if prop.water_only and not self.composition.solvent.is_water:
+            return None
+        src = (self.dilute if dilute else self.props) if prop.source == "props" else self
+        x = getattr(src, prop.field)
+        if x is None:
+            return None
+        v = float(np.asarray(x).reshape(-1)[0])
+        return None if not math.isfinite(v) else prop.display(v)
+
     def solution(self) -> dict:
-        p, d, c = self.props, self.dilute, self.composition
-        def num(x, scale=1.0, offset=0.0):
-            v = float(np.asarray(x).reshape(-1)[0])
-            return None if not math.isfinite(v) else v * scale + offset
+        p, c = self.props, self.composition
         out = {
-            "mass_g": c.m_total[0] * 1e3,
-            "volume_mL": self.volume * 1e6,
-            "density_g_per_mL": self.rho / 1e3,
             "density_method": self.density_method,
             "solvent": c.solvent.name,
             "solvent_mass_g": float(c.m_solvent[0] * 1e3),
             "temperature_C": self.T - 273.15,
             "pressure_kPa": self.P / 1e3,
-            "water_activity": num(p.water_activity),
-            "vapor_pressure_kPa": num(p.vapor_pressure, 1e-3),
-            "vapor_pressure_liquid_kPa": num(p.vapor_pressure_liquid, 1e-3),
-            "vapor_pressure_pure_kPa": num(p.vapor_pressure_pure, 1e-3),
-            "vapor_pressure_lowering_kPa": num(p.vapor_pressure_lowering, 1e-3),
-            "freezing_point_C": num(p.freezing_point, 1.0, -273.15),
-            "freezing_point_depression_K": num(p.freezing_point_depression),
-            "boiling_point_C": num(p.boiling_point, 1.0, -273.15),
-            "boiling_point_elevation_K": num(p.boiling_point_elevation),
-            "osmolality_mOsm_per_kg": num(p.osmolality, 1e3),
-            "osmolarity_mOsm_per_L": num(p.osmolarity) if p.osmolarity is not None else None,
-            "osmotic_coefficient": num(p.osmotic_coefficient),
-            "osmotic_pressure_kPa": num(p.osmotic_pressure, 1e-3),
+            **{q.key: self.value(q) for q in PROPERTIES},
+            "vapor_pressure_liquid_kPa": self.value(_VP_LIQUID),
+            "vapor_pressure_pure_kPa": self.value(_VP_PURE),
             "model": p.model,
             "model_description": p.model_name,
-            "dilute_ideal": {
-                "water_activity": num(d.water_activity),
-                "freezing_point_C": num(d.freezing_point, 1.0, -273.15),
-                "freezing_point_depression_K": num(d.freezing_point_depression),
-                "boiling_point_C": num(d.boiling_point, 1.0, -273.15),
-                "boiling_point_elevation_K": num(d.boiling_point_elevation),
-                "osmolality_mOsm_per_kg": num(d.osmolality, 1e3),
-                "osmotic_pressure_kPa": num(d.osmotic_pressure, 1e-3),
-            },
+            "dilute_ideal": {q.key: self.value(q, dilute=True) for q in PROPERTIES if q.dilute},
         }
         return out
 

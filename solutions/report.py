@@ -9,29 +9,15 @@ import csv
 import html
 import io
 import math
-import re
+
+from .properties import PROPERTIES, about_groups, display_rows
 
 __all__ = ["text_report", "summary_csv", "safe_cell", "PROPERTY_LABELS", "BASIS_LABELS", "fmt",
            "fmt_fixed", "property_text", "dilute_text", "warning_links", "json_text",
            "chart_svg", "html_report", "property_model"]
 
-#: (key in ``solution``, label, unit) in display order
-PROPERTY_LABELS = [
-    ("density_g_per_mL", "Density", "g/mL"),
-    ("volume_mL", "Volume", "mL"),
-    ("mass_g", "Mass", "g"),
-    ("water_activity", "Water activity", ""),
-    ("vapor_pressure_kPa", "Vapor pressure", "kPa"),
-    ("vapor_pressure_lowering_kPa", "Vapor-pressure lowering", "kPa"),
-    ("freezing_point_C", "Freezing point", "°C"),
-    ("freezing_point_depression_K", "Freezing-point depression", "K"),
-    ("boiling_point_C", "Boiling point", "°C"),
-    ("boiling_point_elevation_K", "Boiling-point elevation", "K"),
-    ("osmolality_mOsm_per_kg", "Osmolality", "mOsm/kg"),
-    ("osmolarity_mOsm_per_L", "Calculated osmolarity", "mOsm/L"),
-    ("osmotic_coefficient", "Osmotic coefficient", ""),
-    ("osmotic_pressure_kPa", "Osmotic pressure", "kPa"),
-]
+#: (key in ``solution``, label, unit) in display order, from the property registry
+PROPERTY_LABELS = display_rows()
 
 #: (key in a component record, label, unit)
 BASIS_LABELS = [
@@ -145,12 +131,7 @@ def _esc(x) -> str:
 # ------------------------------------------------------------------ display precision
 #: significant figures a property is shown with (keys of ``solution``); the freezing and
 #: boiling points are shown to the decimals of their shift (see :func:`property_text`)
-PROPERTY_SIG = {
-    "density_g_per_mL": 5, "volume_mL": 5, "mass_g": 5, "vapor_pressure_kPa": 4,
-    "vapor_pressure_lowering_kPa": 3, "freezing_point_depression_K": 3,
-    "boiling_point_elevation_K": 3, "osmolality_mOsm_per_kg": 3,
-    "osmolarity_mOsm_per_L": 3, "osmotic_coefficient": 3, "osmotic_pressure_kPa": 3,
-}
+PROPERTY_SIG = {p.key: p.sig for p in PROPERTIES}
 #: significant figures of the composition tables (dashboard and printable report)
 COMPOSITION_SIG = 4
 #: fixed decimals for properties whose scale is bounded
@@ -218,69 +199,20 @@ def dilute_text(s: dict, key: str) -> str:
 
 
 # ------------------------------------------------------------------ warnings by property
-_AT_T = ("water_activity", "vapor_pressure_kPa", "vapor_pressure_lowering_kPa",
-         "osmolality_mOsm_per_kg", "osmotic_coefficient", "osmotic_pressure_kPa")
-_FREEZING = ("freezing_point_C", "freezing_point_depression_K")
-_BOILING = ("boiling_point_C", "boiling_point_elevation_K")
-_DENSITY = ("density_g_per_mL", "volume_mL", "osmolarity_mOsm_per_L")
-_T_IN_MESSAGE = re.compile(r"(?:temperature|at)\s+(-?[0-9]+(?:\.[0-9]+)?)\s*(K|°C)(?![a-zA-Z])")
-
-
 def warning_links(d: dict) -> dict[str, list[int]]:
-    """Which warnings (1-based numbers in ``d['warnings']``) bear on which property.
+    """Which warnings (1-based numbers in ``d['warnings']``) bear on which property, read
+    from each warning's ``about`` tag (``warnings_detail``) and the property registry.
 
-    Warnings travel as plain messages; this reads them the way a chemist would: a
-    density warning concerns density, volume and osmolarity; a freezing- or boiling-
-    point warning its own rows; an activity-model warning at a stated temperature (K or
-    °C) the property computed nearest that temperature (the solution at T, its freezing point
-    or its boiling point); any other activity warning every activity-based property.
-    A warning that matches nothing is still listed, just not linked.
-
-    >>> d = {"warnings": ["density data for X reach 10 %"], "solution": {}}
+    >>> d = {"warnings": ["w"], "warnings_detail": [{"about": "density", "kind": "x"}]}
     >>> warning_links(d)["volume_mL"]
     [1]
     """
-    s = d.get("solution", {})
     links: dict[str, list[int]] = {k: [] for k, _, _ in PROPERTY_LABELS}
-    detail = d.get("warnings_detail")
-    if detail and len(detail) == len(d.get("warnings", [])):
-        groups = {"density": _DENSITY, "activity": _AT_T, "freezing": _FREEZING,
-                  "boiling": _BOILING, "vapor": ("vapor_pressure_kPa",
-                                                 "vapor_pressure_lowering_kPa"),
-                  "recipe": (), "": _AT_T + _FREEZING + _BOILING}
-        for i, w in enumerate(detail, start=1):
-            keys = groups.get(w.get("about", ""), ())
-            if w.get("kind") == "volatile-solute":
-                keys = _BOILING
-            for k in keys:
-                links[k].append(i)
-        return links
-    targets = {"T": (s.get("temperature_C"), _AT_T),
-               "Tf": (s.get("freezing_point_C"), _FREEZING),
-               "Tb": (s.get("boiling_point_C"), _BOILING)}
-    for i, msg in enumerate(d.get("warnings", []), start=1):
-        low = msg.lower()
-        keys: tuple[str, ...] = ()
-        if "ice is the stable phase" in low:
-            keys = ("vapor_pressure_kPa",)
-        elif "above the boiling point" in low:
-            keys = ("vapor_pressure_kPa", "vapor_pressure_lowering_kPa")
-        elif "volatile" in low:
-            keys = _BOILING
-        elif "density" in low:
-            keys = _DENSITY
-        elif "freezing point" in low:
-            keys = _FREEZING
-        elif "boiling point" in low or "k_b" in low:
-            keys = _BOILING
-        elif (m := _T_IN_MESSAGE.search(msg)):
-            t_c = float(m.group(1)) - (273.15 if m.group(2) == "K" else 0.0)
-            near = [(abs(t_c - v), ks) for v, ks in targets.values()
-                    if v is not None and math.isfinite(v)]
-            keys = min(near, key=lambda x: x[0])[1] if near else _AT_T + _FREEZING + _BOILING
-        elif any(w in low for w in ("activity", "pitzer", "debye", "norrish", "raoult",
-                                    "ideal solute", "model")):
-            keys = _AT_T + _FREEZING + _BOILING
+    groups = about_groups()
+    for i, w in enumerate(d.get("warnings_detail") or [], start=1):
+        keys = groups.get(w.get("about", ""), ())
+        if w.get("kind") == "volatile-solute":
+            keys = groups["boiling"]
         for k in keys:
             links[k].append(i)
     return links

@@ -52,6 +52,7 @@ from .evaluate import Evaluation, evaluate
 from .ingredients import Ingredient, Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
 from .limits import e_value_table, e_values, eutectic, solubility_limit
+from .properties import targets as registry_targets
 from .units import Amount, Basis, parse_unit
 
 __all__ = ["Target", "TargetResult", "solve_target", "find_row", "recipe_table", "recipe_csv",
@@ -79,18 +80,16 @@ class _Prop:
     needs: str = ""  # "freezing", "boiling" or ""
 
 
-PROPERTIES: dict[str, _Prop] = {p.key: p for p in (
-    _Prop("freezing_point", "freezing point", "°C", 1.0, -273.15, 1e-6, "freezing"),
-    _Prop("freezing_point_depression", "freezing-point depression", "K", 1.0, 0.0, 1e-6,
-          "freezing"),
-    _Prop("osmolality", "osmolality", "mOsm/kg", 1e3, 0.0, 1e-7),
-    _Prop("osmolarity", "calculated osmolarity", "mOsm/L", 1.0, 0.0, 1e-5),
-    _Prop("water_activity", "water activity", "", 1.0, 0.0, 1e-9),
-    _Prop("boiling_point", "boiling point", "°C", 1.0, -273.15, 1e-6, "boiling"),
-    _Prop("vapor_pressure", "vapor pressure", "kPa", 1e-3, 0.0, 1e-4, "freezing"),
-    _Prop("density", "density", "g/mL", 1e-3, 0.0, 1e-6),
-    _Prop("concentration", "concentration", "", 1.0, 0.0, 0.0),
-)}
+def _from_registry(p) -> _Prop:
+    return _Prop(p.target, p.label[0].lower() + p.label[1:], p.unit, p.scale, p.offset, p.tol,
+                 p.needs)
+
+
+#: the target properties: the registry's target rows, plus the concentration of a row
+PROPERTIES: dict[str, _Prop] = {
+    **{name: _from_registry(p) for name, p in registry_targets().items()},
+    "concentration": _Prop("concentration", "concentration", "", 1.0, 0.0, 0.0),
+}
 
 _CONC_BASES = (Basis.MASS_FRACTION, Basis.MASS_PER_VOLUME, Basis.MOLARITY, Basis.MOLALITY,
                Basis.VOLUME_FRACTION)
@@ -126,9 +125,11 @@ class Target:
             if self.amount.basis not in _CONC_BASES:
                 raise InputError(f"{self.amount.text!r} is not a concentration; use % w/w, "
                                      "% w/v, % v/v, ppm, g/L, mg/mL, M, mM or mol/kg")
-        if self.quantity == "water_activity" and not (0.0 < self.value < 1.0):
-            raise InputError(f"a water-activity target must lie between 0 and 1, got "
-                                 f"{self.value:g}")
+        if self.quantity in ("water_activity", "equilibrium_relative_humidity") and \
+                not (0.0 < self.value < 1.0):
+            raise InputError(f"a {self.prop.label} target must lie between "
+                             f"{self.display(0.0):g} and {self.display(1.0):g}, got "
+                             f"{self.display(self.value):g}")
         if self.quantity in ("osmolality", "osmolarity", "density", "vapor_pressure",
                              "freezing_point_depression", "concentration") and self.value < 0:
             raise InputError(f"a {PROPERTIES[self.quantity].label} target cannot be "
@@ -380,10 +381,7 @@ def _measure(res: ResolvedRecipe, target: Target, cond: _Conditions, comp_row: i
 
 
 def _from_props(props, q: str) -> float:
-    v = {"freezing_point": props.freezing_point, "freezing_point_depression":
-         props.freezing_point_depression, "osmolality": props.osmolality,
-         "osmolarity": props.osmolarity, "water_activity": props.water_activity,
-         "boiling_point": props.boiling_point, "vapor_pressure": props.vapor_pressure}[q]
+    v = getattr(props, registry_targets()[q].field)
     return float(np.asarray(v).reshape(-1)[0])
 
 

@@ -1,4 +1,5 @@
 """The evaluation object: what every front end shows, with structured warnings and cautions."""
+import pytest
 from solutions.evaluate import evaluate
 from solutions.recipe import read_recipe
 
@@ -33,3 +34,28 @@ def test_cautions_are_tagged():
     assert any("toxic" in c for c in d["cautions"])
     saline = ev("sodium chloride,0.9,% w/v\nwater,q.s. to 1000,mL")
     assert {c["tag"] for c in saline["cautions_detail"]} == {"tonicity", "vessel"}
+
+
+def test_equilibrium_relative_humidity_of_saturated_salt():
+    """Greenspan (1977) J. Res. NBS 81A, 89, Table 2: the relative humidity over saturated
+    NaCl at 25 °C is 75.29 ± 0.12 %; ERH = 100 a_w (definition, common practice)."""
+    from solutions.recipe import read_recipe
+    ev = evaluate(read_recipe("ingredient,amount,unit\nsodium chloride,35.9,g\nwater,100,g\n"))
+    s = ev.to_dict()["solution"]
+    assert s["equilibrium_relative_humidity_percent"] == pytest.approx(75.29, abs=0.3)
+    assert s["equilibrium_relative_humidity_percent"] == pytest.approx(100 * s["water_activity"])
+
+
+def test_equilibrium_relative_humidity_is_null_outside_water():
+    from solutions.recipe import read_recipe
+    ev = evaluate(read_recipe("ingredient,amount,unit\nglycerol,1,g\nethanol,q.s. to 100,mL\n"))
+    assert ev.to_dict()["solution"]["equilibrium_relative_humidity_percent"] is None
+
+
+def test_equilibrium_relative_humidity_target_round_trip():
+    """A target of 90 % ERH is met at a_w = 0.900 (definition)."""
+    from solutions.recipe import read_recipe
+    from solutions.targeting import Target, solve_target
+    recipe = read_recipe("ingredient,amount,unit\nsodium chloride,5,% w/w\nwater,balance,\n")
+    r = solve_target(recipe, "sodium chloride", Target("equilibrium_relative_humidity", 0.90))
+    assert r.evaluation.to_dict()["solution"]["water_activity"] == pytest.approx(0.90, abs=1e-8)

@@ -147,18 +147,12 @@ def test_property_text_shows_a_point_to_the_decimals_of_its_shift():
     assert property_text(s, "water_activity") == "—"
 
 
-def test_warning_links_follow_the_temperature_in_the_message():
-    d = {"solution": {"temperature_C": 25.0, "freezing_point_C": -0.6,
-                      "boiling_point_C": 100.14},
-         "warnings": ["NaOAc: temperature 272.55 K is outside the range [298.15, 298.15] K",
-                      "NaOAc: temperature 373.29 K is outside the range [298.15, 298.15] K",
-                      "density data for X cover 25 °C; result at 20 °C is extrapolated",
-                      "no activity parameters for Y: it enters as an ideal solute",
-                      "something unrelated",
-                      "K2HPO4: its Pitzer parameters are for 25 °C only; used unchanged at "
-                      "-0.6003 °C (extrapolated)",
-                      "101 °C is above the boiling point at 101.3 kPa (100.1 °C): the solution "
-                      "boils in an open vessel"]}
+def test_warning_links_follow_the_about_tags():
+    """Each warning is linked by the ``about`` tag it carries (set where the caveat is made),
+    never by reading its text."""
+    tags = ["freezing", "boiling", "density", "", "recipe", "freezing", "vapor"]
+    d = {"warnings": [f"w{i}" for i in range(1, 8)],
+         "warnings_detail": [{"about": t, "kind": "model-range"} for t in tags]}
     links = warning_links(d)
     assert links["freezing_point_C"] == [1, 4, 6]
     assert links["vapor_pressure_kPa"] == [4, 7]
