@@ -73,10 +73,13 @@ def test_measured_density_wins():
 
 
 def test_fallback_is_flagged():
-    """A solute without density data uses ideal additivity and says so."""
-    comp = Composition.from_mass_fractions((LIB.get("propylene glycol"),), [[0.3]], LIB.get("water"))
-    r = solution_density(comp, 298.15)
-    assert any(c.kind == "ideal-fallback" and "Propylene glycol" in c.message for c in r.caveats)
+    """A solute without solution-density data uses ideal additivity and says so."""
+    for name in ("dimethyl sulfoxide", "PEG 400"):
+        comp = Composition.from_mass_fractions((LIB.get(name),), [[0.3]], LIB.get("water"))
+        r = solution_density(comp, 298.15)
+        assert any(c.kind == "ideal-fallback" and LIB.get(name).name in c.message
+                   for c in r.caveats)
+        assert "ideal additivity" in r.method
 
 
 def test_out_of_range_warns():
@@ -90,7 +93,8 @@ def test_table_shape_and_sources():
     t = density_table()
     assert len(t) >= 30
     for key, row in t.items():
-        assert row["form"] in ("laliberte", "vapp_poly")
+        assert row["form"] in ("laliberte", "vapp_poly", "oiml_ethanol", "melinder",
+                               "volk_glycerol")
         assert isinstance(row["source"], str) and len(row["source"]) > 20
         assert float(row["T_min_C"]) <= float(row["T_max_C"])
 
