@@ -19,7 +19,8 @@ IAPWS-IF97. Per solute, ``solutions/data/density_apparent.csv`` names one form:
     (1975), 0–100 %, −20 to 40 °C. Ethylene and propylene glycol: Melinder (2010),
     0–60 %, 0–100 °C; from 60 % to the pure glycol the apparent volume is interpolated
     linearly to the pure liquid's specific volume (Perry's Table 2-32), flagged.
-    Glycerol: Volk & Kähler (2018), 0–100 %, fitted 15–30 °C.
+    Glycerol: Volk & Kähler (2018), 0–100 %, fitted 15–30 °C, used 0–40 °C (agrees with
+    Melinder's glycerol data within 0.1 % there, tests/test_density.py).
     Coefficients: ``solutions/data/density_correlations.csv``.
 ``vapp_poly``
     1/rho_app = c0 + c1 w_s + c2 w_s² + c3 w_s³ (+ c4 w_s⁴)   [m³/kg]; fitted by tools/fit_density.py
