@@ -17,8 +17,11 @@ IAPWS-IF97. Per solute, ``solutions/data/density_apparent.csv`` names one form:
     into the solute's apparent specific volume against the correlation's own water,
     v_app(w, T) = (1/rho_bin(w, T) − (1 − w)/rho_bin(0, T)) / w. Ethanol: OIML R 22
     (1975), 0–100 %, −20 to 40 °C. Ethylene and propylene glycol: Melinder (2010),
-    0–60 %, 0–100 °C; from 60 % to the pure glycol the apparent volume is interpolated
-    linearly to the pure liquid's specific volume (Perry's Table 2-32), flagged.
+    0–60 %, 0–100 °C; for ethylene glycol the CRC 20 °C table (to 60 %, fitted as for
+    ``vapp_poly``, coefficients c0..c3 in the same row) sets the 20 °C values and
+    Melinder's correlation only their change with T (the two differ by up to 0.1 % at
+    20 °C). From 60 % to the pure glycol the apparent volume is interpolated linearly to
+    the pure liquid's specific volume (Perry's Table 2-32), flagged.
     Glycerol: Volk & Kähler (2018), 0–100 %, fitted 15–30 °C, used 0–40 °C (agrees with
     Melinder's glycerol data within 0.1 % there, tests/test_density.py).
     Coefficients: ``solutions/data/density_correlations.csv``.
@@ -277,13 +280,23 @@ def _v_app_binary(row, w, T):
     return (1.0 / _binary_rho(row, w, T) - (1.0 - w) / _binary_rho(row, 0.0, T)) / w
 
 
+def _v_app_melinder(row, w, T):
+    """Melinder's apparent volume; where the row also carries a CRC 20 °C polynomial
+    (c0..c3), that sets the composition dependence and Melinder only the change with T."""
+    v = _v_app_binary(row, w, T)
+    if _coef_or_zero(row.get("c0")) == 0.0:
+        return v
+    c0, c1, c2, c3 = (float(row[k]) for k in ("c0", "c1", "c2", "c3"))
+    return c0 + w * (c1 + w * (c2 + w * c3)) + v - _v_app_binary(row, w, np.full_like(T, T20))
+
+
 def _binary_apparent_volume(row: dict, w_s, T):
     """Apparent specific volume [m³/kg] of the solute from its binary correlation."""
     w_s, T = np.broadcast_arrays(np.asarray(w_s, dtype=float), np.asarray(T, dtype=float))
     if row["form"] != "melinder":
         return _v_app_binary(row, w_s, T)
     wm = _MELINDER_W_MAX
-    v = _v_app_binary(row, np.minimum(w_s, wm), T)
+    v = _v_app_melinder(row, np.minimum(w_s, wm), T)
     high = w_s > wm
     if np.any(high):
         lo, hi = liquid_density_range(row["solute"])

@@ -140,8 +140,8 @@ CRC_0_80 = {"Ethanol": "ethanol", "Glycerol": "glycerol", "1,2-Ethanediol": "eth
 def test_binary_within_0_2_percent_of_crc_at_20C_up_to_80_percent(crc, name):
     """CRC Handbook 102nd ed. (2021), Concentrative Properties of Aqueous Solutions, 20 °C:
     every tabulated density from 0.5 to 80 % w/w within 0.2 % (ethylene glycol: the table
-    stops at 60 %). Ethanol (OIML R 22), glycerol (Volk & Kähler 2018) and ethylene glycol
-    (Melinder 2010) are not fitted to this table; methanol and 2-propanol are (see the
+    stops at 60 %). Ethanol (OIML R 22) and glycerol (Volk & Kähler 2018) are not fitted to
+    this table; ethylene glycol (20 °C values), methanol and 2-propanol are (see the
     hold-out test below)."""
     d = CRC[(CRC.solute == crc) & (CRC.mass_pct > 0) & (CRC.mass_pct <= 80)]
     assert len(d) >= 10
@@ -178,7 +178,8 @@ def test_propylene_glycol_40_percent_at_20C():
 
 def test_ethylene_glycol_40_percent_at_60C():
     """A 40 % w/w ethylene glycol coolant at 60 °C: 1029 kg/m³ (Melinder 2010 data as
-    implemented by CoolProp: 1029.1); the former 20 °C apparent-volume model was ~1 % high."""
+    implemented by CoolProp: 1029.1; our 20 °C values come from the CRC table and only the
+    change with T from Melinder's correlation); the former model was ~1 % high."""
     r = _rho("ethylene glycol", 0.40, 333.15)
     assert r.rho[0] == pytest.approx(1029.1, rel=1e-3)
     assert not [c for c in r.caveats if c.kind == "model-range"]
@@ -208,7 +209,8 @@ def test_binary_densities_against_coolprop(fluid, name, temps, tol):
         np.testing.assert_allclose(_rho(name, ws, T).rho, ref, rtol=tol)
 
 
-@pytest.mark.parametrize("crc, key", [("Methanol", "methanol"), ("D-Glucose", "glucose"),
+@pytest.mark.parametrize("crc, key", [("Methanol", "methanol"), ("1,2-Ethanediol", "ethylene glycol"),
+                                      ("D-Glucose", "glucose"),
                                       ("D-Fructose", "fructose"), ("Urea", "urea")])
 def test_fitted_tables_hold_out(crc, key):
     """Hold-out check of tools/fit_density.py: the same fit made on every other row of the

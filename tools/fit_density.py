@@ -15,9 +15,11 @@ The fit is reproducible; tests/test_density.py checks the result against the sam
 For each solute the script also prints a hold-out error: the same fit made on every other
 row of the table and checked on the rows left out.
 
-Ethanol, glycerol, ethylene and propylene glycol are not fitted here: they use published
-density correlations over w and T (OIML R 22, Volk & Kähler 2018, Melinder 2010; see
-solutions/density.py), whose rows in density_apparent.csv this script keeps.
+Ethanol, glycerol and propylene glycol are not fitted here: they use published density
+correlations over w and T (OIML R 22, Volk & Kähler 2018, Melinder 2010; see
+solutions/density.py), whose rows in density_apparent.csv this script keeps. Ethylene
+glycol is fitted here at 20 °C and its row keeps the form ``melinder``: Melinder's
+correlation then supplies only the change with temperature.
 """
 from __future__ import annotations
 
@@ -37,6 +39,7 @@ OUT = ROOT / "solutions" / "data" / "density_apparent.csv"
 
 # CRC solute name -> our solute key, molar mass of the dissolved basis override (g/mol)
 FITS = {
+    "1,2-Ethanediol": "ethylene glycol",
     "D-Glucose": "glucose",
     "D-Fructose": "fructose",
     "D-Mannitol": "mannitol",
@@ -60,6 +63,10 @@ DEGREE = 3
 # Between those last rows the curve is not pinned by data (cubic, quartic and quintic fits
 # differ there by up to 0.6 %), and an every-other-row hold-out is not meaningful.
 DEGREES = {"2-propanol": 4}
+T_SHIFT_SOURCE = {"melinder": (
+    " (20 °C values, to 60 %); change with temperature: Melinder, A. (2010) Properties of "
+    "Secondary Working Fluids for Indirect Systems, IIR/IIF, density polynomial "
+    "(solutions/data/density_correlations.csv), 0-100 degC")}
 SOURCE = ("fitted by tools/fit_density.py (polynomial apparent specific volume) to CRC Handbook "
           "102nd ed. (2021) Concentrative Properties of Aqueous Solutions, 20 °C")
 
@@ -107,8 +114,17 @@ def main() -> None:
                          c4=repr(float(coef[4])) if len(coef) > 4 else "", T_min_C=15.0,
                          T_max_C=25.0, w_max=round(float(w.max()), 4), source=SOURCE))
     old = pd.read_csv(OUT)
-    old = old[old.form != "vapp_poly"]
-    pd.concat([old, pd.DataFrame(rows)]).to_csv(OUT, index=False)
+    new = pd.DataFrame(rows)
+    # rows of another form (published T-dependent correlation) keep their form and range
+    # and take only the 20 °C coefficients
+    keep_form = old[(old.form != "vapp_poly") & old.solute.isin(new.solute)]
+    for _, r in keep_form.iterrows():
+        i = new.index[new.solute == r.solute][0]
+        for col in ("form", "T_min_C", "T_max_C", "w_max"):
+            new.loc[i, col] = r[col]
+        new.loc[i, "source"] = SOURCE + T_SHIFT_SOURCE.get(r.form, "")
+    old = old[(old.form != "vapp_poly") & ~old.solute.isin(new.solute)]
+    pd.concat([old, new]).to_csv(OUT, index=False)
 
 
 if __name__ == "__main__":
