@@ -296,3 +296,15 @@ def test_binary_functions_vectorize():
     for f in (ethanol_water_density, glycerol_water_density):
         assert f(w, T).shape == (11, 3)
     assert glycol_water_density(w * 0.6, T, "ethylene glycol").shape == (11, 3)
+
+
+def test_beyond_correlation_range_is_continuous_and_flagged():
+    """Above OIML R 22's 40 °C the polynomial is not used (it drifts 1 % for pure ethanol
+    by 80 °C); the 40 °C excess volume is carried with the pure liquids' expansion: no step
+    at 40 °C, a warning beyond it, and the pure-ethanol end follows Perry's Table 2-32
+    (ethanol 80 °C: 733 kg/m³ from that equation, within 0.5 %)."""
+    r = _rho("ethanol", [0.5, 0.5], np.array([313.15, 313.15 + 1e-7])).rho
+    assert abs(r[1] - r[0]) < 1e-3
+    hot = _rho("ethanol", 0.999999, 353.15)
+    assert any(c.kind == "model-range" for c in hot.caveats)
+    assert hot.rho[0] == pytest.approx(float(pure_liquid_density(353.15, "ethanol")), rel=5e-3)
