@@ -26,8 +26,8 @@ IAPWS-IF97. Per solute, ``solutions/data/density_apparent.csv`` names one form:
     Melinder's glycerol data within 0.1 % there, tests/test_density.py).
     Coefficients: ``solutions/data/density_correlations.csv``.
 ``vapp_poly``
-    1/rho_app = c0 + c1 w_s + c2 w_s² + c3 w_s³ (+ c4 w_s⁴)   [m³/kg]; fitted by tools/fit_density.py
-    to the CRC Handbook 20 °C tables. Away from 20 °C a liquid solute with a pure-liquid
+    1/rho_app = c0 + c1 w_s + c2 w_s² + c3 w_s³ (+ c4 w_s⁴)   [m³/kg]; fitted by
+    tools/fit_density.py to the CRC Handbook 20 °C tables. Away from 20 °C a liquid solute with a pure-liquid
     density equation (``solutions/data/liquid_density.csv``, Perry's Table 2-32 / VDI
     Heat Atlas) shifts its apparent volume by its own thermal expansion,
     1/rho_L(T) − 1/rho_L(20 °C), i.e. the excess volume is held at its 20 °C value; a
@@ -190,7 +190,8 @@ def _correlations() -> dict[str, dict]:
     df = pd.read_csv(str(path))
     out: dict[str, dict] = {}
     for r in df.to_dict("records"):
-        out.setdefault(r["correlation"], {})[(r["kind"], int(r["i"]), int(r["j"]))] = float(r["value"])
+        key = (r["kind"], int(r["i"]), int(r["j"]))
+        out.setdefault(r["correlation"], {})[key] = float(r["value"])
     return out
 
 
@@ -250,7 +251,7 @@ def glycerol_water_density(w, T):
     rho_w = 1000 (1 − |(t − 3.98)/615|^1.71), κ = 1 + A sin(w^1.31 π)^0.81,
     A = 1.78e-6 t² − 1.82e-4 t + 1.41e-2, t in °C. Fitted 15–30 °C, 0 ≤ w ≤ 1.
 
-    >>> round(float(glycerol_water_density(0.5, 293.15)), 1)   # CRC 20 °C, 48–52 %: 1120.0–1130.8
+    >>> round(float(glycerol_water_density(0.5, 293.15)), 1)   # CRC 48 / 52 %: 1120.0 / 1130.8
     1126.1
     """
     c = {k[0]: v for k, v in _correlations()["volk_glycerol"].items()}
@@ -416,9 +417,12 @@ def _range_caveats(name: str, row: dict, w_s, T) -> list[Caveat]:
     if np.any(t < tmin - 0.5) or np.any(t > tmax + 0.5):
         extra = ""
         if row["form"] == "vapp_poly":
-            extra = (" (fitted at 20 °C only; the solute's excess volume is held at its 20 °C "
-                     "value and its pure-liquid expansion applied)" if row["solute"] in _liquid_table()
-                     else " (fitted at 20 °C only; solute's apparent volume held at its 20 °C value)")
+            if row["solute"] in _liquid_table():
+                extra = (" (fitted at 20 °C only; the solute's excess volume is held at its "
+                         "20 °C value and its pure-liquid expansion applied)")
+            else:
+                extra = (" (fitted at 20 °C only; solute's apparent volume held at its "
+                         "20 °C value)")
         out.append(Caveat("model-range",
                           f"density data for {name} cover {tmin:g}–{tmax:g} °C{extra}; "
                           f"result at {_fmt_range(t)} °C is extrapolated", name,

@@ -196,7 +196,8 @@ COOLPROP_CASES = [
 ]
 
 
-@pytest.mark.parametrize("fluid, name, temps, tol", COOLPROP_CASES, ids=[c[0] for c in COOLPROP_CASES])
+@pytest.mark.parametrize("fluid, name, temps, tol", COOLPROP_CASES,
+                         ids=[c[0] for c in COOLPROP_CASES])
 def test_binary_densities_against_coolprop(fluid, name, temps, tol):
     """Outside check over temperature: CoolProp's incompressible aqueous solutions (its own
     fits to Melinder's (2010) tables; a general-purpose library used only here), 10-60 %
