@@ -406,8 +406,11 @@ class _VaporPressureRow:
     source: str
 
 
-# Liquids whose curve comes from elsewhere in the package, not from vapor_pressure.csv.
-_WATER_RANGE = (273.16, 647.096)  # IAPWS-IF97 saturation line, triple to critical point
+# Water's curve comes from solutions.water, not from vapor_pressure.csv: the IAPWS-IF97
+# saturation line from the triple point to the critical point, and below the triple point
+# the supercooled-liquid equation of Murphy & Koop (2005) down to its 123 K limit.
+_WATER_T_TRIPLE = 273.16
+_WATER_RANGE = (123.0, 647.096)
 
 
 @cache
@@ -448,7 +451,9 @@ def pure_vapor_pressure_range(key: str) -> tuple[float, float]:
 def pure_vapor_pressure_source(key: str) -> str:
     """Citation of the vapor-pressure equation used for ``key``."""
     if key == "water":
-        return "IAPWS-IF97 saturation line (solutions.water.saturation_pressure)"
+        return ("IAPWS-IF97 saturation line (solutions.water.saturation_pressure), 273.16-647.096 K; "
+                "below 273.16 K supercooled liquid water, Murphy & Koop (2005) Q. J. R. Meteorol. "
+                "Soc. 131, 1539, Eq. (10) (solutions.water.supercooled_vapor_pressure)")
     return _vp_row(key).source
 
 
@@ -476,7 +481,8 @@ def pure_vapor_pressure(T, key: str, *, extrapolate: bool = False):
     key : str
         The ingredient's ``solute`` key as in ``ingredients.csv`` (``"ethanol"``,
         ``"2-propanol"``, ``"ethylene glycol"``, ``"dimethyl sulfoxide"`` ...);
-        :func:`volatile_keys` lists them. ``"water"`` uses IAPWS-IF97.
+        :func:`volatile_keys` lists them. ``"water"`` uses IAPWS-IF97 (supercooled
+        liquid below 273.16 K: Murphy & Koop 2005).
     extrapolate : bool, keyword-only
         If False (default) a temperature outside the equation's range raises
         :class:`VaporPressureRangeError`. If True such points are evaluated with the
@@ -525,8 +531,10 @@ def pure_vapor_pressure(T, key: str, *, extrapolate: bool = False):
                       f"[{lo:g}, {hi:g}] K ({int(outside.sum())} point(s), e.g. {bad:g} K)",
                       VaporPressureExtrapolationWarning, stacklevel=2)
     if key == "water":
-        from .water import saturation_pressure
-        P = np.asarray(saturation_pressure(T), dtype=float)
+        from .water import saturation_pressure, supercooled_vapor_pressure
+        liquid = T >= _WATER_T_TRIPLE
+        P = np.where(liquid, saturation_pressure(np.where(liquid, T, 300.0)),
+                     supercooled_vapor_pressure(np.where(liquid, 260.0, T)))
     else:
         P = _evaluate_vp(_vp_row(key), T)
     return float(P) if T.ndim == 0 else P

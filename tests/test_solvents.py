@@ -379,3 +379,16 @@ def test_pure_vapor_pressure_positive_and_rising(key, f, df):
     p1, p2 = pure_vapor_pressure(T1, key), pure_vapor_pressure(T2, key)
     assert np.isfinite(p1) and p1 > 0.0
     assert T2 <= T1 or p2 > p1
+
+
+def test_pure_vapor_pressure_water_below_the_triple_point():
+    """Below 273.16 K water is the supercooled liquid (Murphy & Koop 2005, Eq. 10); the two
+    equations meet at the triple point (611.657 Pa, IAPWS) within 0.05 %."""
+    from solutions.water import supercooled_vapor_pressure
+    assert pure_vapor_pressure(263.15, "water") == supercooled_vapor_pressure(263.15)
+    lo = pure_vapor_pressure(273.16 - 1e-9, "water")
+    hi = pure_vapor_pressure(273.16, "water")
+    assert hi == pytest.approx(611.657, rel=1e-4)
+    assert lo == pytest.approx(hi, rel=5e-4)
+    with pytest.raises(VaporPressureRangeError):
+        pure_vapor_pressure(100.0, "water")
