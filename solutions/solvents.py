@@ -451,8 +451,8 @@ def pure_vapor_pressure_range(key: str) -> tuple[float, float]:
 def pure_vapor_pressure_source(key: str) -> str:
     """Citation of the vapor-pressure equation used for ``key``."""
     if key == "water":
-        return ("IAPWS-IF97 saturation line (solutions.water.saturation_pressure), 273.16-647.096 K; "
-                "below 273.16 K supercooled liquid water, Murphy & Koop (2005) Q. J. R. Meteorol. "
+        return ("IAPWS-IF97 saturation line (solutions.water.saturation_pressure), "
+                "273.16-647.096 K; below 273.16 K supercooled liquid water, Murphy & Koop (2005) Q. J. R. Meteorol. "
                 "Soc. 131, 1539, Eq. (10) (solutions.water.supercooled_vapor_pressure)")
     return _vp_row(key).source
 
