@@ -26,28 +26,17 @@ from scipy.optimize import brentq
 
 from .colligative import P_ATM
 from .composition import Composition
-from .density import solution_density
-from .errors import Caveat, DataError, RecipeError, TargetError, merge_caveats
+from .concentration import in_basis
+from .density import solution_density, solvent_density
+from .errors import Caveat, RecipeError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, parse_batch, resolve
 from .limits import solubility_caveats
 from .targeting import _CONC_BASES, component_concentration, find_row, parse_quantity
 from .units import Basis, parse_unit
-from .water import water_density
 
 __all__ = ["WeighOut", "weigh_out", "DilutionPlan", "dilution_plan", "solvent_density"]
-
-
-def solvent_density(res_or_comp, T: float) -> float:
-    """Density of the pure solvent [kg/m³] at ``T`` [K]: IAPWS-IF97 for water, else the
-    library's 20 °C liquid density."""
-    comp = res_or_comp.composition if isinstance(res_or_comp, ResolvedRecipe) else res_or_comp
-    if comp.solvent.is_water:
-        return float(water_density(T))
-    if comp.solvent.rho_pure:
-        return float(comp.solvent.rho_pure)
-    raise DataError(f"no liquid density for the solvent {comp.solvent.name}")
 
 
 def _amount_text(row: RecipeRow) -> tuple[object, str]:
@@ -312,23 +301,11 @@ def _mix_concentration(stock: ResolvedRecipe, j: int, basis: Basis, alpha: float
     """(concentration of stock row j [SI of basis], density [kg/m³]) of the mixture at T_prep."""
     comp = _mix(stock, alpha)
     rho = float(solution_density(comp, T_prep).rho[0])
-    m_j = alpha * float(stock.pure_kg[j]) / stock.m_total     # per kg of mixture
-    n_j = float(comp.n[0, j])
-    V = 1.0 / rho
     ing = comp.solutes[j]
-    if basis is Basis.MASS_FRACTION:
-        return m_j, rho
-    if basis is Basis.MASS_PER_VOLUME:
-        return m_j / V, rho
-    if basis is Basis.MOLARITY:
-        return n_j / V, rho
-    if basis is Basis.MOLALITY:
-        return n_j / float(comp.m_solvent[0]), rho
-    if basis is Basis.VOLUME_FRACTION:
-        if not ing.rho_pure:
-            raise RecipeError(f"% v/v of {ing.name} needs its liquid density")
-        return m_j / ing.rho_pure / V, rho
-    raise RecipeError(f"{basis.value} is not a concentration basis")
+    c = in_basis(basis, m=alpha * float(stock.pure_kg[j]) / stock.m_total, n=float(comp.n[0, j]),
+                 m_total=1.0, m_solvent=float(comp.m_solvent[0]), volume=1.0 / rho,
+                 rho_pure=ing.rho_pure, name=ing.name)
+    return float(c), rho
 
 
 def dilution_plan(recipe: Recipe, ingredient: str, to_text: str, final_text: str, *,

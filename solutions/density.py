@@ -57,10 +57,10 @@ import numpy as np
 import pandas as pd
 
 from .composition import Composition
-from .errors import Caveat, IngredientError, OutOfRangeError
+from .errors import Caveat, DataError, IngredientError, OutOfRangeError
 from .water import saturation_pressure, water_density
 
-__all__ = ["DensityResult", "solution_density", "apparent_density", "density_table",
+__all__ = ["DensityResult", "solution_density", "solvent_density", "apparent_density", "density_table",
            "pure_liquid_density", "liquid_density_keys", "ethanol_water_density",
            "glycol_water_density", "glycerol_water_density"]
 
@@ -446,3 +446,14 @@ def _range_caveats(name: str, row: dict, w_s, T) -> list[Caveat]:
 def _fmt_range(t) -> str:
     lo, hi = float(np.min(t)), float(np.max(t))
     return f"{lo:.4g}" if abs(hi - lo) < 1e-9 else f"{lo:.4g}–{hi:.4g}"
+
+
+def solvent_density(res_or_comp, T: float) -> float:
+    """Density of the pure solvent [kg/m³] at ``T`` [K]: IAPWS-IF97 for water, else the
+    library's liquid density (a resolved recipe or a composition)."""
+    comp = getattr(res_or_comp, "composition", res_or_comp)
+    if comp.solvent.is_water:
+        return float(water_density(T))
+    if comp.solvent.rho_pure:
+        return float(comp.solvent.rho_pure)
+    raise DataError(f"no liquid density for the solvent {comp.solvent.name}")

@@ -24,8 +24,10 @@ from . import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
 from .errors import Caveat, OptionError, merge_caveats
+from .concentration import in_basis
 from .properties import PROPERTIES, Property
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
+from .units import Basis
 
 __all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows", "USES"]
 
@@ -119,44 +121,43 @@ class Evaluation:
 
 
 def component_table(res: ResolvedRecipe, rho: float) -> list[dict]:
-    """One record per recipe row (solvent included) in every basis, at density ``rho``."""
+    """One record per recipe row (solvent included) in every basis, at density ``rho``.
+
+    A solute's mass-based figures are of the form as weighed (a hydrate with its water);
+    the solvent row's figures count all the solvent in the solution (crystal water
+    included), while ``weigh_g`` is the solvent to add."""
     c = res.composition
-    m_tot = float(c.m_total[0])
+    m_tot, m_s = float(c.m_total[0]), float(c.m_solvent[0])
     V = m_tot / rho
     n_w = float(c.n_solvent[0])
     n_all = float(c.n.sum()) + n_w
+
+    def bases(m, n):
+        kw = dict(m=m, n=n, m_total=m_tot, m_solvent=m_s, volume=V)
+        w = float(in_basis(Basis.MASS_FRACTION, **kw))
+        gl = float(in_basis(Basis.MASS_PER_VOLUME, **kw))
+        return {"mass_g": m * 1e3, "amount_mol": n, "mass_fraction": w, "mole_fraction": n / n_all,
+                "molality_mol_per_kg": float(in_basis(Basis.MOLALITY, **kw)),
+                "molarity_mol_per_L": float(in_basis(Basis.MOLARITY, **kw)) / 1e3,
+                "mass_per_volume_g_per_L": gl, "percent_w_v": gl / 10.0, "ppm": w * 1e6}
+
     out = []
     for j, row in enumerate(res.solute_rows):
         ing = row.ingredient
-        m = float(res.pure_kg[j])
         n = float(c.n[0, j])
-        out.append({
-            "ingredient": row.text, "library_name": ing.name, "row": row.row,
-            "formula": ing.formula, "molar_mass_g_per_mol": ing.M * 1e3,
-            "mass_g": m * 1e3, "weigh_g": float(res.weighed_kg[j]) * 1e3,
-            "dissolved_mass_g": n * ing.M_solute * 1e3,
-            "amount_mol": n,
-            "mass_fraction": m / m_tot,
-            "mole_fraction": n / n_all,
-            "molality_mol_per_kg": n / float(c.m_solvent[0]),
-            "molarity_mol_per_L": n / V / 1e3,
-            "mass_per_volume_g_per_L": m / V,
-            "percent_w_v": m / V / 10.0,
-            "ppm": m / m_tot * 1e6,
-            "ions": ing.ions,
-        })
+        out.append({"ingredient": row.text, "library_name": ing.name, "row": row.row,
+                    "formula": ing.formula, "molar_mass_g_per_mol": ing.M * 1e3,
+                    **bases(float(res.pure_kg[j]), n),
+                    "weigh_g": float(res.weighed_kg[j]) * 1e3,
+                    "dissolved_mass_g": n * ing.M_solute * 1e3, "ions": ing.ions})
     w = res.solvent_row
-    mw = res.water_added_kg
-    out.append({
-        "ingredient": w.text if w is not None else c.solvent.name,
-        "library_name": c.solvent.name, "row": w.row if w is not None else None,
-        "formula": c.solvent.formula, "molar_mass_g_per_mol": c.solvent.M * 1e3,
-        "mass_g": mw * 1e3, "weigh_g": mw * 1e3, "dissolved_mass_g": float(c.m_solvent[0]) * 1e3,
-        "amount_mol": n_w, "mass_fraction": mw / m_tot, "mole_fraction": n_w / n_all,
-        "molality_mol_per_kg": None, "molarity_mol_per_L": n_w / V / 1e3,
-        "mass_per_volume_g_per_L": mw / V, "percent_w_v": mw / V / 10.0,
-        "ppm": mw / m_tot * 1e6, "ions": None, "solvent": True,
-    })
+    rec = {"ingredient": w.text if w is not None else c.solvent.name,
+           "library_name": c.solvent.name, "row": w.row if w is not None else None,
+           "formula": c.solvent.formula, "molar_mass_g_per_mol": c.solvent.M * 1e3,
+           **bases(m_s, n_w), "weigh_g": res.water_added_kg * 1e3, "dissolved_mass_g": m_s * 1e3,
+           "ions": None, "solvent": True}
+    rec["molality_mol_per_kg"] = None
+    out.append(rec)
     return out
 
 

@@ -51,6 +51,8 @@ from .errors import Caveat, IngredientError, InputError, RecipeError, TargetErro
 from .evaluate import Evaluation, evaluate
 from .ingredients import Ingredient, Library, default_library
 from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
+from .concentration import CONCENTRATION_BASES as _CONC_BASES, in_basis
+from .density import solvent_density
 from .limits import e_value_table, e_values, eutectic, solubility_limit
 from .properties import targets as registry_targets
 from .units import Amount, Basis, parse_unit
@@ -90,9 +92,6 @@ PROPERTIES: dict[str, _Prop] = {
     **{name: _from_registry(p) for name, p in registry_targets().items()},
     "concentration": _Prop("concentration", "concentration", "", 1.0, 0.0, 0.0),
 }
-
-_CONC_BASES = (Basis.MASS_FRACTION, Basis.MASS_PER_VOLUME, Basis.MOLARITY, Basis.MOLALITY,
-               Basis.VOLUME_FRACTION)
 
 
 @dataclass(frozen=True)
@@ -328,32 +327,21 @@ def recipe_csv(recipe: Recipe) -> str:
 # ---------------------------------------------------------------------------- measuring
 def component_concentration(res: ResolvedRecipe, row_id: int, amount: Amount, rho: float) -> float:
     """Concentration of recipe row ``row_id`` in ``amount.basis`` [SI of the basis], at solution
-    density ``rho`` [kg/m³]; mass bases count the form as weighed (as the evaluate output)."""
+    density ``rho`` [kg/m³]; mass bases count the form as weighed (as the evaluate output), the
+    solvent row counts all the solvent."""
     c = res.composition
     m_tot = float(c.m_total[0])
-    V = m_tot / rho
     if res.solvent_row is not None and res.solvent_row.row == row_id:
         ing = res.solvent_row.ingredient
-        m, n = res.water_added_kg, res.water_added_kg / ing.M
+        m = float(c.m_solvent[0])
+        n = m / ing.M
+        rho_i = solvent_density(c, res.T_prep)
     else:
         j = next(i for i, r in enumerate(res.solute_rows) if r.row == row_id)
         ing = res.solute_rows[j].ingredient
-        m, n = float(res.pure_kg[j]), float(c.n[0, j])
-    b = amount.basis
-    if b is Basis.MASS_FRACTION:
-        return m / m_tot
-    if b is Basis.MASS_PER_VOLUME:
-        return m / V
-    if b is Basis.MOLARITY:
-        return n / V
-    if b is Basis.MOLALITY:
-        return n / float(c.m_solvent[0])
-    if b is Basis.VOLUME_FRACTION:
-        rho_i = ing.rho_pure if not ing.is_water else 998.2
-        if not rho_i:
-            raise InputError(f"% v/v of {ing.name} needs its liquid density")
-        return m / rho_i / V
-    raise InputError(f"{amount.text!r} is not a concentration basis")
+        m, n, rho_i = float(res.pure_kg[j]), float(c.n[0, j]), ing.rho_pure
+    return float(in_basis(amount.basis, m=m, n=n, m_total=m_tot, m_solvent=float(c.m_solvent[0]),
+                          volume=m_tot / rho, rho_pure=rho_i, name=ing.name))
 
 
 @dataclass

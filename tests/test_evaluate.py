@@ -17,10 +17,11 @@ def test_recipe_rows_as_written():
 
 def test_warnings_say_what_they_are_about():
     """Each warning message appears once, with kind, component and the results it bears on."""
-    d = ev("propylene glycol,30,% w/w\nNaCl,25,% w/w\nwater,balance,", T=263.15)
+    d = ev("dimethyl sulfoxide,30,% w/w\nNaCl,25,% w/w\nwater,balance,", T=263.15)
     assert len(d["warnings"]) == len(d["warnings_detail"])
     about = {w["kind"]: w["about"] for w in d["warnings_detail"]}
-    assert about["ideal-fallback"] == "density"      # PG has no solution-density data
+    # DMSO has no solution-density data
+    assert ("ideal-fallback", "density") in {(w["kind"], w["about"]) for w in d["warnings_detail"]}
     kinds = [w["kind"] for w in d["warnings_detail"]]
     assert "eutectic" in kinds and about["eutectic"] == "freezing"
 
@@ -59,3 +60,15 @@ def test_equilibrium_relative_humidity_target_round_trip():
     recipe = read_recipe("ingredient,amount,unit\nsodium chloride,5,% w/w\nwater,balance,\n")
     r = solve_target(recipe, "sodium chloride", Target("equilibrium_relative_humidity", 0.90))
     assert r.evaluation.to_dict()["solution"]["water_activity"] == pytest.approx(0.90, abs=1e-8)
+
+
+def test_water_row_bases_count_all_water():
+    """The solvent row's g/L and mol/L both describe all the water in the solution (crystal
+    water included), so g/L = M × mol/L (definitions); the water to add is weigh_g."""
+    d = ev("calcium chloride dihydrate,300,g\nsodium chloride,50,g\nwater,1000,g")
+    w = d["components"][-1]
+    assert w["mass_per_volume_g_per_L"] == pytest.approx(
+        w["molarity_mol_per_L"] * w["molar_mass_g_per_mol"], rel=1e-12)
+    assert w["weigh_g"] == pytest.approx(1000.0, rel=1e-12)
+    crystal = 300.0 * 2 * 18.015 / 147.01       # CaCl2·2H2O carries 2 waters (formula)
+    assert w["mass_g"] == pytest.approx(1000.0 + crystal, rel=1e-3)

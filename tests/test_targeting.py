@@ -105,14 +105,18 @@ def test_propylene_glycol_freezing_targets_volume_percent(T_C, lo, fp_lo, hi, fp
     phi_published = _interp(T_C, fp_lo, lo, fp_hi, hi)
     assert r.varied.amount.text == "% v/v"
     assert r.number == pytest.approx(phi_published, abs=1.0)
-    # the volume-to-mass conversion the model used is the additive one stated above
+    # the volume-to-mass conversion the model used is % v/v = w ρ / ρ_pure with the solution
+    # density ρ of the density model at 20 °C (Melinder's propylene glycol correlation)
     res = r.evaluation.resolved
     ing = res.solute_rows[0].ingredient
     w = float(res.pure_kg[0]) / res.m_total
     phi = r.number / 100
-    from solutions.water import water_density
-    w_additive = phi * ing.rho_pure / (phi * ing.rho_pure + (1 - phi) * water_density(293.15))
-    assert w == pytest.approx(w_additive, rel=1e-9)
+    from solutions.composition import Composition
+    from solutions.density import solution_density
+    from solutions.ingredients import default_library
+    rho = solution_density(Composition.from_mass_fractions((ing,), [[w]], default_library().get("water")),
+                           293.15).rho[0]
+    assert phi == pytest.approx(w * rho / ing.rho_pure, rel=1e-9)
 
 
 # ----------------------------------------------------------------------------- isotonicity
