@@ -31,21 +31,13 @@ from .density import solution_density, solvent_density
 from .errors import Caveat, RecipeError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
-from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, parse_batch, resolve
+from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, parse_batch,
+                     parse_quantity, resolve)
 from .limits import solubility_caveats
-from .targeting import _CONC_BASES, component_concentration, find_row, parse_quantity
+from .targeting import _CONC_BASES, component_concentration
 from .units import Basis, parse_unit
 
 __all__ = ["WeighOut", "weigh_out", "DilutionPlan", "dilution_plan", "solvent_density"]
-
-
-def _amount_text(row: RecipeRow) -> tuple[object, str]:
-    b = row.amount.basis
-    if b is Basis.BALANCE:
-        return "balance", ""
-    if b in (Basis.QS_VOLUME, Basis.QS_MASS):
-        return f"q.s. to {row.number:g}", row.amount.text
-    return row.number, row.amount.text
 
 
 # ---------------------------------------------------------------------------- weigh-out
@@ -73,10 +65,11 @@ class WeighOut:
     def rows(self) -> list[dict]:
         res = self.resolved
         c = res.composition
+        written = {w["row"]: w for w in res.recipe.as_written()}
         out = []
         for j, r in enumerate(res.solute_rows):
             ing = r.ingredient
-            amount, unit = _amount_text(r)
+            amount, unit = written[r.row]["amount"], written[r.row]["unit"]
             pure = float(res.pure_kg[j])
             dissolved = float(c.n[0, j]) * ing.M_solute
             rec = {
@@ -105,8 +98,8 @@ class WeighOut:
             "ingredient": w.text if w is not None else c.solvent.name,
             "library_name": c.solvent.name, "row": w.row if w is not None else None,
             "formula": c.solvent.formula,
-            "recipe_amount": _amount_text(w)[0] if w is not None else None,
-            "recipe_unit": _amount_text(w)[1] if w is not None else "",
+            "recipe_amount": written[w.row]["amount"] if w is not None else None,
+            "recipe_unit": written[w.row]["unit"] if w is not None else "",
             "weigh_g": res.water_added_kg * 1e3,
             "volume_mL": res.water_added_kg / rho_w * 1e6,
             "volume_temperature_C": T_prep - 273.15,

@@ -29,7 +29,7 @@ from .properties import PROPERTIES, Property
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
 from .units import Basis
 
-__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "recipe_rows", "USES"]
+__all__ = ["Evaluation", "evaluate", "component_table", "cautions_for", "USES"]
 
 #: what a product is for: "any" keeps every caution, "technical" (not for the body) drops tonicity
 USES = ("any", "technical")
@@ -112,7 +112,7 @@ class Evaluation:
                            "use": self.use},
             "components": self.components(),
             "solution": self.solution(),
-            "recipe": recipe_rows(r.recipe),
+            "recipe": r.recipe.as_written(),
             "warnings": [w.message for w in self.warnings],
             "warnings_detail": [w.to_dict() for w in self.warnings],
             "cautions": [msg for _, msg in self.cautions],
@@ -158,21 +158,6 @@ def component_table(res: ResolvedRecipe, rho: float) -> list[dict]:
            "ions": None, "solvent": True}
     rec["molality_mol_per_kg"] = None
     out.append(rec)
-    return out
-
-
-def recipe_rows(recipe: Recipe) -> list[dict]:
-    """The recipe's rows as written: ingredient, amount, unit (q.s./balance spelled out)."""
-    out = []
-    for r in recipe.rows:
-        b = r.amount.basis.value
-        if b == "balance":
-            amount, unit = "balance", ""
-        elif b.startswith("q.s."):
-            amount, unit = f"q.s. to {r.number:g}", r.amount.text
-        else:
-            amount, unit = r.number, r.amount.text
-        out.append({"row": r.row, "ingredient": r.text, "amount": amount, "unit": unit})
     return out
 
 

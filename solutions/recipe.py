@@ -36,7 +36,8 @@ from .units import Amount, Basis, is_solvent_rule, parse_unit, read_number
 from .water import water_density
 
 __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
-           "find_columns", "parse_batch"]
+           "find_columns", "parse_batch", "read_workbook", "parse_quantity", "find_row",
+           "solvent_row", "new_row_unit", "with_number", "recipe_csv"]
 
 T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
 
@@ -87,6 +88,21 @@ class Recipe:
 
     def __len__(self):
         return len(self.rows)
+
+    def as_written(self) -> list[dict]:
+        """The rows as written: row, ingredient, amount, unit (q.s./balance spelled out,
+        numbers at full precision). The one description of a recipe every output uses."""
+        out = []
+        for r in self.rows:
+            b = r.amount.basis
+            if b is Basis.BALANCE:
+                amount, unit = "balance", ""
+            elif b in (Basis.QS_VOLUME, Basis.QS_MASS):
+                amount, unit = f"q.s. to {_number_text(r.number)}", r.amount.text
+            else:
+                amount, unit = float(r.number), r.amount.text
+            out.append({"row": r.row, "ingredient": r.text, "amount": amount, "unit": unit})
+        return out
 
 
 # ------------------------------------------------------------------------------ reading
@@ -669,3 +685,99 @@ def parse_batch(text: str, *, decimal: str = ".") -> tuple[str, float]:
         shown = ("1 µg to 1 000 t" if kind == "mass" else "1 µL to 1 000 m³")
         raise RecipeError(f"batch {text!r} is outside the sizes this tool computes ({shown})")
     return kind, v
+
+
+# ---------------------------------------------------------------------------- recipe edits
+def parse_quantity(text: str) -> tuple[float, Amount]:
+    """``"0.9 % w/v"`` → (0.9, Amount of % w/v). Raises :class:`RecipeError` if unreadable.
+
+    >>> n, a = parse_quantity("0.9 % w/v")
+    >>> n, a.basis.value, a.value_si   # % w/v is 10 kg/m³ per unit
+    (0.9, 'mass/volume', 10.0)
+    """
+    m = _NUM_UNIT.match(str(text).replace("\u2212", "-"))
+    if not m or not m.group("unit").strip():
+        raise RecipeError(f"{text!r}: write a number and a unit, e.g. '0.9 % w/v' or '20 % w/w'")
+    try:
+        return read_number(m.group("num")), parse_unit(m.group("unit"))
+    except (NumberError, UnitParseError) as exc:
+        raise RecipeError(f"{text!r}: {exc.reason}") from None
+
+
+# ---------------------------------------------------------------------------- recipe edits
+def _norm(text: str) -> str:
+    return re.sub(r"[\s_\-,]+", "", str(text).strip().lower().replace("·", "."))
+
+
+def find_row(recipe: Recipe, name: str, library: Library | None = None
+             ) -> tuple[RecipeRow | None, Ingredient]:
+    """The recipe row ``name`` refers to (as typed, or by library name or synonym), or
+    ``(None, ingredient)`` when the ingredient is not in the recipe."""
+    lib = library or default_library()
+    n = _norm(name)
+    hits = [r for r in recipe.rows if _norm(r.text) == n]
+    if not hits:
+        hits = [r for r in recipe.rows if n in {_norm(r.ingredient.name), _norm(r.ingredient.key),
+                                               *map(_norm, r.ingredient.synonyms)}]
+    ing = None
+    if not hits:
+        try:
+            ing = lib.get(name)
+            hits = [r for r in recipe.rows if r.ingredient.key == ing.key]
+        except IngredientError as exc:
+            if "ambiguous" not in exc.reason:
+                raise
+            keys = {lib.get(s).key for s in exc.suggestions}
+            hits = [r for r in recipe.rows if r.ingredient.key in keys]
+            if not hits:
+                raise
+    if len(hits) > 1:
+        raise RecipeError(f"{name!r} matches rows {', '.join(str(r.row) for r in hits)}; "
+                          "write the ingredient as in one row")
+    if hits:
+        return hits[0], hits[0].ingredient
+    return None, ing
+
+
+def solvent_row(recipe: Recipe) -> RecipeRow | None:
+    """The solvent's row: the q.s./balance row, else the water row, else ``None``."""
+    rules = [r for r in recipe.rows if r.is_solvent_rule]
+    if rules:
+        return rules[0]
+    waters = [r for r in recipe.rows if r.ingredient.is_water]
+    return waters[0] if waters else None
+
+
+def new_row_unit(recipe: Recipe) -> str:
+    """The unit a new row gets: % w/v under a q.s. volume, % w/w under balance or a q.s.
+    mass, grams otherwise."""
+    sv = solvent_row(recipe)
+    b = sv.amount.basis if sv is not None else None
+    if b is Basis.QS_VOLUME:
+        return "% w/v"
+    if b in (Basis.BALANCE, Basis.QS_MASS):
+        return "% w/w"
+    return "g"
+
+
+def with_number(recipe: Recipe, row_id: int, x: float) -> Recipe:
+    """The recipe with row ``row_id``'s number set to ``x`` (its unit unchanged)."""
+    rows = tuple(replace(r, number=float(x)) if r.row == row_id else r for r in recipe.rows)
+    return replace(recipe, rows=rows)
+
+
+def _number_text(x: float) -> str:
+    return str(int(x)) if float(x).is_integer() and abs(x) < 1e15 else repr(float(x))
+
+
+def recipe_csv(recipe: Recipe) -> str:
+    """The recipe as CSV text that :func:`read_recipe` reads back exactly (numbers written with
+    full precision)."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["ingredient", "amount", "unit", "assay_%"])
+    for rec, r in zip(recipe.as_written(), recipe.rows):
+        a = rec["amount"]
+        w.writerow([rec["ingredient"], repr(a) if isinstance(a, float) else a, rec["unit"],
+                    repr(r.assay * 100.0) if r.assay != 1.0 else ""])
+    return buf.getvalue()

@@ -40,32 +40,30 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass, field, replace
-from typing import Callable, Mapping
+from typing import Callable
 
 import numpy as np
 from scipy.optimize import brentq
 
 from .colligative import P_ATM, colligative
 from .density import solution_density
-from .errors import Caveat, IngredientError, InputError, RecipeError, TargetError, merge_caveats
+from .errors import Caveat, InputError, RecipeError, TargetError, merge_caveats
 from .evaluate import Evaluation, evaluate
-from .ingredients import Ingredient, Library, default_library
-from .recipe import T_PREP, Recipe, RecipeRow, ResolvedRecipe, resolve
+from .ingredients import Library, default_library
+from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
+                     parse_quantity, resolve, solvent_row, with_number)
 from .concentration import CONCENTRATION_BASES as _CONC_BASES, in_basis
 from .density import solvent_density
-from .limits import e_value_table, e_values, eutectic, solubility_limit
+from .isotonic import ISOTONIC_NACL_G_PER_100ML, ISOTONIC_OSMOLALITY, e_value_isotonic
+from .limits import e_values, eutectic, solubility_limit
 from .properties import targets as registry_targets
 from .units import Amount, Basis, parse_unit
 
-__all__ = ["Target", "TargetResult", "solve_target", "find_row", "recipe_table", "recipe_csv",
+__all__ = ["Target", "TargetResult", "solve_target",
            "solubility_limit", "eutectic", "e_values",
-           "e_value_isotonic", "component_concentration", "ISOTONIC_OSMOLALITY",
+           "component_concentration", "ISOTONIC_OSMOLALITY",
            "ISOTONIC_NACL_G_PER_100ML", "W_CAP", "PROPERTIES"]
 
-#: osmolality taken as isotonic with body fluids [mol/kg] (290 mOsm/kg, common practice)
-ISOTONIC_OSMOLALITY = 0.290
-#: NaCl concentration taken as isotonic for the E-value method [g/100 mL] (common practice)
-ISOTONIC_NACL_G_PER_100ML = 0.9
 #: highest mass fraction of the varied ingredient searched (practically the pure ingredient)
 W_CAP = 0.98
 
@@ -222,108 +220,6 @@ class Target:
 _NUM_UNIT = re.compile(r"^\s*(?P<num>[-+]?[0-9]*[.,]?[0-9]+(?:[eE][-+]?[0-9]+)?)\s*(?P<unit>.*)$")
 
 
-def parse_quantity(text: str) -> tuple[float, Amount]:
-    """``"0.9 % w/v"`` → (0.9, Amount of % w/v). Raises :class:`RecipeError` if unreadable.
-
-    >>> n, a = parse_quantity("0.9 % w/v")
-    >>> n, a.basis.value, a.value_si   # % w/v is 10 kg/m³ per unit
-    (0.9, 'mass/volume', 10.0)
-    """
-    m = _NUM_UNIT.match(str(text).replace("\u2212", "-"))
-    if not m or not m.group("unit").strip():
-        raise RecipeError(f"{text!r}: write a number and a unit, e.g. '0.9 % w/v' or '20 % w/w'")
-    return float(m.group("num").replace(",", ".")), parse_unit(m.group("unit"))
-
-
-# ---------------------------------------------------------------------------- recipe edits
-def _norm(text: str) -> str:
-    return re.sub(r"[\s_\-,]+", "", str(text).strip().lower().replace("·", "."))
-
-
-def find_row(recipe: Recipe, name: str, library: Library | None = None
-             ) -> tuple[RecipeRow | None, Ingredient]:
-    """The recipe row ``name`` refers to (as typed, or by library name or synonym), or
-    ``(None, ingredient)`` when the ingredient is not in the recipe."""
-    lib = library or default_library()
-    n = _norm(name)
-    hits = [r for r in recipe.rows if _norm(r.text) == n]
-    if not hits:
-        hits = [r for r in recipe.rows if n in {_norm(r.ingredient.name), _norm(r.ingredient.key),
-                                               *map(_norm, r.ingredient.synonyms)}]
-    ing = None
-    if not hits:
-        try:
-            ing = lib.get(name)
-            hits = [r for r in recipe.rows if r.ingredient.key == ing.key]
-        except IngredientError as exc:
-            if "ambiguous" not in exc.reason:
-                raise
-            keys = {lib.get(s).key for s in exc.suggestions}
-            hits = [r for r in recipe.rows if r.ingredient.key in keys]
-            if not hits:
-                raise
-    if len(hits) > 1:
-        raise RecipeError(f"{name!r} matches rows {', '.join(str(r.row) for r in hits)}; "
-                          "write the ingredient as in one row")
-    if hits:
-        return hits[0], hits[0].ingredient
-    return None, ing
-
-
-def _solvent_row(recipe: Recipe) -> RecipeRow | None:
-    rules = [r for r in recipe.rows if r.is_solvent_rule]
-    if rules:
-        return rules[0]
-    waters = [r for r in recipe.rows if r.ingredient.is_water]
-    return waters[0] if waters else None
-
-
-def _new_row_unit(recipe: Recipe) -> str:
-    sv = _solvent_row(recipe)
-    b = sv.amount.basis if sv is not None else None
-    if b is Basis.QS_VOLUME:
-        return "% w/v"
-    if b in (Basis.BALANCE, Basis.QS_MASS):
-        return "% w/w"
-    return "g"
-
-
-def _with_number(recipe: Recipe, row_id: int, x: float) -> Recipe:
-    rows = tuple(replace(r, number=float(x)) if r.row == row_id else r for r in recipe.rows)
-    return replace(recipe, rows=rows)
-
-
-def recipe_table(recipe: Recipe) -> list[dict]:
-    """The recipe as {ingredient, amount, unit} rows in its own units (q.s./balance as typed)."""
-    out = []
-    for r in recipe.rows:
-        b = r.amount.basis
-        if b is Basis.BALANCE:
-            amount, unit = "balance", ""
-        elif b in (Basis.QS_VOLUME, Basis.QS_MASS):
-            n = float(r.number)
-            amount, unit = f"q.s. to {int(n) if n.is_integer() else repr(n)}", r.amount.text
-        else:
-            amount, unit = float(r.number), r.amount.text
-        out.append({"ingredient": r.text, "amount": amount, "unit": unit})
-    return out
-
-
-def recipe_csv(recipe: Recipe) -> str:
-    """The recipe as CSV text that :func:`solutions.recipe.read_recipe` reads back exactly
-    (numbers written with full precision)."""
-    import csv
-    import io
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(["ingredient", "amount", "unit", "assay_%"])
-    for rec, r in zip(recipe_table(recipe), recipe.rows):
-        a = rec["amount"]
-        w.writerow([rec["ingredient"], repr(a) if isinstance(a, float) else a, rec["unit"],
-                    repr(r.assay * 100.0) if r.assay != 1.0 else ""])
-    return buf.getvalue()
-
-
 # ---------------------------------------------------------------------------- measuring
 def component_concentration(res: ResolvedRecipe, row_id: int, amount: Amount, rho: float) -> float:
     """Concentration of recipe row ``row_id`` in ``amount.basis`` [SI of the basis], at solution
@@ -417,7 +313,7 @@ class TargetResult:
         ev = self.evaluation
         d = ev.to_dict()
         d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
-        d["recipe"] = recipe_table(self.recipe)
+        d["recipe"] = self.recipe.as_written()
         j = self._varied_index()
         res = ev.resolved
         d["varied"] = {
@@ -514,7 +410,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
         raise InputError("a density target cannot be solved with a measured density "
                              "(--density): drop the measured value")
     row, ing = find_row(recipe, vary, lib)
-    sv = _solvent_row(recipe)
+    sv = solvent_row(recipe)
     if row is not None and sv is not None and row.row == sv.row:
         raise RecipeError(f"{row.text} is the solvent; vary a solute (to reach a concentration "
                           "by adding water use the 'dilute' command)", row.row, "ingredient",
@@ -523,7 +419,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
         raise RecipeError("water is the solvent and cannot be the varied ingredient")
     original = None
     if row is None:
-        unit = _new_row_unit(recipe)
+        unit = new_row_unit(recipe)
         row = RecipeRow(max(r.row for r in recipe.rows) + 1, ing, parse_unit(unit), 0.0, 1.0,
                         str(vary))
         recipe = replace(recipe, rows=(*recipe.rows, row))
@@ -543,7 +439,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
 
     solver = _Solver(recipe, row, target, cond, comp_row)
     x = solver.solve(original)
-    final = _with_number(recipe, row.row, x)
+    final = with_number(recipe, row.row, x)
     res = resolve(final, T_prep=cond.T_prep, rho_measured=rho_measured)
     ev = evaluate(res, T=cond.T, P=cond.P, model=model, rho_measured=rho_measured,
                   T_prep=cond.T_prep)
@@ -580,12 +476,12 @@ class _Solver:
                 "solubility", f"the solubility of {row.ingredient.name} is tabulated for "
                 f"{info['T_min'] - 273.15:g}–{info['T_max'] - 273.15:g} °C only; the nearest "
                 "value limits the search", row.ingredient.name))
-        self.sv = _solvent_row(recipe)
+        self.sv = solvent_row(recipe)
 
     # --- one point -------------------------------------------------------------------
     def resolved(self, x: float) -> ResolvedRecipe:
         try:
-            res = resolve(_with_number(self.recipe, self.row.row, x), T_prep=self.cond.T_prep,
+            res = resolve(with_number(self.recipe, self.row.row, x), T_prep=self.cond.T_prep,
                           rho_measured=self.cond.rho_measured)
         except RecipeError as exc:
             raise _Infeasible(str(exc)) from None
@@ -786,61 +682,3 @@ class _Solver:
                    f"be computed there); the last computed value is {pb}, short of the "
                    f"target {tgt}")
         raise TargetError(why, nearest, t.unit)
-
-
-# ---------------------------------------------------------------------------- E-values
-def e_value_isotonic(res: ResolvedRecipe, row_id: int, e_values_override: Mapping[str, float]
-                     | None = None, nacl_isotonic: float = ISOTONIC_NACL_G_PER_100ML) -> dict:
-    """Amount of recipe row ``row_id`` that makes the recipe isotonic by the E-value method.
-
-    c_X = (0.9 − Σ_{j≠X} E_j c_j) / E_X, with c in g per 100 mL of the recipe's volume at its
-    preparation temperature (mass of the form as weighed) and E the sodium chloride
-    equivalent of that form (``e_values.csv``; ``e_values_override`` maps a library key,
-    library name or the name as typed to E and wins). Returns a dict with
-    ``available`` False and a ``reason`` when some E-value is missing.
-    """
-    table = e_value_table()
-    over = {_norm(k): float(v) for k, v in (e_values_override or {}).items()}
-    V = res.volume_prep
-    per100 = lambda m: m / V / 10.0  # noqa: E731  kg / m³ → g / 100 mL
-    items, missing = [], []
-    for j, r in enumerate(res.solute_rows):
-        ing = r.ingredient
-        E, src, derived = None, "", ""
-        for k in (r.text, ing.key, ing.name):
-            if _norm(k) in over:
-                E, src = over[_norm(k)], "given"
-                break
-        if E is None and ing.key in table:
-            e = table[ing.key]
-            E, src, derived = e["E"], e["source"], e["derived"]
-        if E is None:
-            missing.append(r.text)
-        items.append({"ingredient": r.text, "row": r.row, "E": E, "source": src,
-                      "derived": derived, "g_per_100_mL": per100(float(res.pure_kg[j])),
-                      "nacl_equivalent_g_per_100_mL": None if E is None else
-                      E * per100(float(res.pure_kg[j]))})
-    out = {"isotonic_nacl_g_per_100_mL": nacl_isotonic, "volume_mL": V * 1e6,
-           "volume_read_at_C": res.T_prep - 273.15, "ingredients": items,
-           "note": "sodium-chloride-equivalent method (common practice): E-values are "
-                   "single-concentration approximations; the model result is the primary one"}
-    if missing:
-        out.update(available=False, reason="no E-value for " + ", ".join(missing)
-                   + " in e_values.csv")
-        return out
-    X = next(i for i in items if i["row"] == row_id)
-    if not X["E"]:
-        out.update(available=False, reason=f"the E-value of {X['ingredient']} is zero")
-        return out
-    others = sum(i["nacl_equivalent_g_per_100_mL"] for i in items if i["row"] != row_id)
-    c = (nacl_isotonic - others) / X["E"]
-    out.update(available=True, varied=X["ingredient"], E_varied=X["E"],
-               others_nacl_equivalent_g_per_100_mL=others,
-               g_per_100_mL=c, g_in_batch=c * V * 1e4,
-               model_g_per_100_mL=X["g_per_100_mL"], model_g_in_batch=X["g_per_100_mL"] * V * 1e4,
-               difference_percent=(c / X["g_per_100_mL"] - 1.0) * 100.0
-               if X["g_per_100_mL"] > 0 else None)
-    if c < 0:
-        out["note"] += ("; the other ingredients alone are already hypertonic by this method, "
-                        "so none should be added")
-    return out

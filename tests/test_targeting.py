@@ -23,9 +23,10 @@ from solutions.errors import RecipeError, SolutionsError, TargetError
 from solutions.evaluate import evaluate
 from solutions.recipe import read_recipe, resolve
 from solutions.limits import solubility_caveats
-from solutions.targeting import (PROPERTIES, Target, e_value_isotonic, e_values, eutectic,
-                                 find_row, recipe_csv, recipe_table,
-                                 solubility_limit, solve_target)
+from solutions.isotonic import e_value_isotonic
+from solutions.limits import e_values, eutectic, solubility_limit
+from solutions.recipe import find_row, recipe_csv
+from solutions.targeting import PROPERTIES, Target, solve_target
 
 ROOT = Path(__file__).resolve().parents[1]
 REF = ROOT / "tests" / "reference"
@@ -399,7 +400,8 @@ def test_cli_target_json(tmp_path, capsys):
     for key in ("components", "solution", "warnings", "cautions", "recipe", "varied",
                 "target", "e_value_method"):
         assert key in d
-    assert d["recipe"][1] == {"ingredient": "water", "amount": "q.s. to 1000", "unit": "mL"}
+    assert d["recipe"][1] == {"row": 2, "ingredient": "water", "amount": "q.s. to 1000",
+                              "unit": "mL"}
     assert d["recipe"][0]["unit"] == "% w/v"
     assert d["varied"]["unit"] == "% w/v" and d["varied"]["amount"] == d["recipe"][0]["amount"]
     assert d["varied"]["mass_g"] == pytest.approx(d["components"][0]["mass_g"], rel=1e-12)
@@ -429,7 +431,7 @@ def test_new_row_units():
     assert (qs.varied.amount.text, bal.varied.amount.text, ab.varied.amount.text) == (
         "% w/v", "% w/w", "g")
     assert all(r.added for r in (qs, bal, ab))
-    assert recipe_table(ab.recipe)[-1]["ingredient"] == "urea"
+    assert ab.recipe.as_written()[-1]["ingredient"] == "urea"
 
 
 def test_bad_inputs():
