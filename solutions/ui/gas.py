@@ -17,7 +17,7 @@ import numpy as np
 import pandas as pd
 
 from ..charts import COLORS
-from ..constants import P_ATM, T_ZERO_C
+from ..constants import T_ZERO_C
 from ..errors import SolutionsError
 
 __all__ = ["GasInputs", "GasAnswer", "gas_answer", "dissolved_chart", "sealed_chart",
