@@ -17,7 +17,7 @@ import numpy as np
 import pandas as pd
 
 from ..charts import COLORS
-from ..constants import P_ATM, T_ZERO_C
+from ..constants import T_ZERO_C
 from ..errors import SolutionsError
 
 __all__ = ["GasInputs", "GasAnswer", "gas_answer", "dissolved_chart", "sealed_chart",
@@ -187,6 +187,19 @@ def sealed_chart(df: pd.DataFrame, d: dict, width=None, height: int = 260) -> al
                  alt.Tooltip("series:N", title=""),
                  alt.Tooltip("kPa:Q", title="kPa", format=".4g")])
     layer = base.mark_line(strokeWidth=2) + base.mark_point(opacity=0, size=40)
+    pts = [("filled", d["temperature_C"], d["fill_total_pressure_kPa"]),
+           ("warmed", d["warm_temperature_C"], d["warm_pressure_kPa"])]
+    marks = pd.DataFrame([p for p in pts if p[2] is not None], columns=["label", "T_C", "kPa"])
+    if len(marks):
+        m = alt.Chart(marks).encode(
+            x="T_C:Q", y="kPa:Q",
+            tooltip=[alt.Tooltip("label:N", title=""),
+                     alt.Tooltip("T_C:Q", title="°C", format=".1f"),
+                     alt.Tooltip("kPa:Q", title="kPa (absolute)", format=".4g")])
+        layer = layer + m.mark_point(shape="diamond", size=110, filled=True,
+                                     color=COLORS["mark"]) \
+            + m.mark_text(dx=8, dy=-10, align="left", fontSize=11,
+                          color=COLORS["mark"]).encode(text="label:N")
     if d.get("rating_kPa_gauge"):
         rule = pd.DataFrame({"kPa": [d["rating_kPa_gauge"]], "label": ["rating (gauge)"]})
         r = alt.Chart(rule).encode(y="kPa:Q")
