@@ -17,31 +17,13 @@ Temperatures are °C and pressures kPa on the command line; the library is SI in
 from __future__ import annotations
 
 import argparse
-import json
-import math
 import os
 import sys
 
+from .report import dumps
 from .errors import NumberError, OptionError, SolutionsError, TargetError, UnitParseError
 
 EXIT_INPUT, EXIT_UNREACHABLE = 2, 3
-
-
-def _clean(obj):
-    """JSON-safe copy: NaN/inf become None (and are never produced silently upstream)."""
-    if isinstance(obj, float):
-        return obj if math.isfinite(obj) else None
-    if isinstance(obj, dict):
-        return {k: _clean(v) for k, v in obj.items()}
-    if isinstance(obj, (list, tuple)):
-        return [_clean(v) for v in obj]
-    if hasattr(obj, "item") and callable(obj.item):  # numpy scalar
-        return _clean(obj.item())
-    return obj
-
-
-def dumps(obj) -> str:
-    return json.dumps(_clean(obj), indent=2, ensure_ascii=False, allow_nan=False)
 
 
 def _common(p: argparse.ArgumentParser) -> None:

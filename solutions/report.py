@@ -8,13 +8,14 @@ from __future__ import annotations
 import csv
 import html
 import io
+import json
 import math
 
 from .properties import PROPERTIES, about_groups, display_rows
 
 __all__ = ["text_report", "summary_csv", "safe_cell", "PROPERTY_LABELS", "BASIS_LABELS", "fmt",
            "fmt_fixed", "property_text", "dilute_text", "warning_links", "json_text",
-           "chart_svg", "html_report", "property_model"]
+           "chart_svg", "html_report", "property_model", "dumps"]
 
 #: (key in ``solution``, label, unit) in display order, from the property registry
 PROPERTY_LABELS = display_rows()
@@ -219,9 +220,25 @@ def warning_links(d: dict) -> dict[str, list[int]]:
 
 
 # ------------------------------------------------------------------ JSON and HTML
+def _clean(obj):
+    """JSON-safe copy: NaN/inf become None (and are never produced silently upstream)."""
+    if isinstance(obj, float):
+        return obj if math.isfinite(obj) else None
+    if isinstance(obj, dict):
+        return {k: _clean(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_clean(v) for v in obj]
+    if hasattr(obj, "item") and callable(obj.item):  # numpy scalar
+        return _clean(obj.item())
+    return obj
+
+
+def dumps(obj) -> str:
+    return json.dumps(_clean(obj), indent=2, ensure_ascii=False, allow_nan=False)
+
+
 def json_text(d: dict) -> str:
     """The JSON text of ``python -m solutions evaluate --json`` for the same dictionary."""
-    from .cli import dumps
     return dumps(d)
 
 

@@ -66,7 +66,7 @@ def test_summary_csv_has_every_property_and_the_recipe_rows(eye_rinse):
 
 # ------------------------------------------------------------------ JSON
 def test_json_text_is_the_command_line_object(eye_rinse):
-    from solutions.cli import dumps
+    from solutions.report import dumps
     assert json_text(eye_rinse) == dumps(eye_rinse)
     back = json.loads(json_text(eye_rinse))
     assert back["solution"]["osmolality_mOsm_per_kg"] == pytest.approx(
