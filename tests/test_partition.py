@@ -119,6 +119,16 @@ def test_vegetable_oil_relation_against_bean_soya_oil_coefficients():
         assert abs(math.log10(K) - math.log10(measured)) < 0.25, key
 
 
+def test_vegetable_oil_relation_phenol_within_the_stated_factor():
+    """Phenol in arachis oil/water: K = 5.6 measured (Bean, Heman-Ackah & Thomas 1965, Table I).
+    The relation under-predicts it (about 2.0); the caveat's stated factor of 3 covers it."""
+    rel = oil_relations()["vegetable_oil"]
+    K = float(oil_partition_coefficient(partition_data()["phenol"].log_Kow, rel.a, rel.b))
+    assert 5.6 / 3 < K < 5.6
+    r = distribute("phenol", 0.2, 1.0, oil="vegetable_oil")
+    assert any("factor of about 3" in c.message for c in r.caveats)
+
+
 # ------------------------------------------------------------------------ identities
 @settings(max_examples=200, deadline=None)
 @given(phi=st.floats(0.0, 0.95), c=st.floats(1e-3, 100.0), pH=st.floats(0.0, 14.0),
