@@ -319,11 +319,8 @@ def cmd_fit_vapor_pressure(args) -> int:
             P_at = parse_pressure(args.at_pressure)
         except ValueError as exc:
             raise SolutionsError(f"--at-pressure: {exc}") from None
-    fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, at_pressure=P_at)
+    fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, at_pressure=P_at, gauge=data.gauge)
     out = fit.to_dict()
-    if data.gauge:
-        out["warnings"].insert(0, "the pressure column is gauge: 101.325 kPa was added to "
-                                  "every value")
     if args.json:
         print(dumps(out))
         return 0

@@ -453,6 +453,7 @@ class VaporPressureFit:
         d["warnings"] = [c.message for c in cav]
         d["warnings_detail"] = [c.to_dict() for c in cav]
         d["notes"] = [DZ_NOTE]
+        d["cautions"] = []
         return d
 
 
@@ -477,16 +478,21 @@ def _boiling_point(fit: AntoineFit, P: float, label: str, cav: list) -> float | 
 
 
 def fit_vapor_pressure(T, P, *, rows=None, at_pressure: float | None = None,
-                       water_check: bool = True) -> VaporPressureFit:
+                       water_check: bool = True, gauge: bool = False) -> VaporPressureFit:
     """Clausius–Clapeyron and Antoine fits with boiling points and flags.
 
     T : temperatures [K]; P : pressures [Pa]; rows : each point's label (file row), default 1…n
     at_pressure : a pressure [Pa] at which to give the boiling point
     water_check : flag points below water's triple point that lie on the IAPWS sublimation curve
+    gauge : the pressures were read as gauge and made absolute by adding 101.325 kPa (warns)
     """
     T, P = _check_points(T, P, 3, "Clausius–Clapeyron fit")
     rows = tuple(rows) if rows is not None else tuple(range(1, T.size + 1))
     cav: list[Caveat] = []
+    if gauge:
+        cav.append(Caveat("gauge", "The pressure column is gauge: 101.325 kPa was added to every "
+                          "value; a vapor pressure is absolute, so check the column's unit.",
+                          about="vapor"))
     cc = clausius_clapeyron_fit(T, P)
     ant = None
     if T.size >= 4 and np.unique(np.round(T, 9)).size >= 3:

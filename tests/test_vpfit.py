@@ -191,6 +191,13 @@ def test_units_by_header(tmp_path):
     da, db = read_vapor_pressure_table(a), read_vapor_pressure_table(b)
     assert np.allclose(da.T, db.T, rtol=1e-12) and np.allclose(da.P, db.P, rtol=1e-12)
     assert da.rows == (2, 3, 4, 5, 6)
+    g = tmp_path / "g.csv"
+    g.write_text("temperature_K,pressure_barg\n" + "".join(
+        f"{t + 273.15},{p / 1e5 - 1.01325}\n" for t, p in zip(T_C, P)))
+    dg = read_vapor_pressure_table(g)
+    assert dg.gauge and np.allclose(dg.P, da.P, rtol=1e-9)
+    fit = fit_vapor_pressure(dg.T, dg.P, gauge=dg.gauge).to_dict()
+    assert any(w["kind"] == "gauge" for w in fit["warnings_detail"])
 
 
 @pytest.mark.parametrize("text, match", [

@@ -42,7 +42,7 @@ def fit_table(text: str, at_pressure_kPa: float | None = None) -> FitOutcome:
     """Read and fit a table given as text; errors come back as the library's message."""
     try:
         data = read_vapor_pressure_table(text)
-        fit = fit_vapor_pressure(data.T, data.P, rows=data.rows,
+        fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, gauge=data.gauge,
                                  at_pressure=None if at_pressure_kPa is None
                                  else at_pressure_kPa * 1e3)
     except SolutionsError as exc:
