@@ -56,7 +56,7 @@ from scipy.special import expit
 from .errors import Caveat, OutOfRangeError, SolutionsError, TargetError, merge_caveats
 
 __all__ = ["PartitionEntry", "OilRelation", "PartitionResult", "PartitionDataError",
-           "partition_data", "partition_entry", "oil_relations", "fraction_unionized",
+           "partition_data", "partition_rows", "partition_entry", "oil_relations", "fraction_unionized",
            "oil_partition_coefficient", "free_unionized_water", "total_for_free", "distribute",
            "total_needed", "phase_profile", "EFFICACY_CAUTION", "BINDING_UNIT_KG_PER_M3",
            "DEFAULT_OIL"]
