@@ -11,11 +11,11 @@
   From it the normal boiling point (101.325 kPa) and the boiling point at a stated pressure.
 
 Checks: fewer than 3 points (4 for Antoine) are refused; points whose externally studentized
-residual exceeds 3 (and that lie more than 0.2 % off the curve, so that rounding in a table is
-not taken for a bad point) are flagged; a kink in ``ln p`` against ``1/T`` (two straight lines fitting far
-better than one smooth curve) is flagged as a probable phase change, and points below the triple
-point of water that lie on the IAPWS sublimation curve are flagged as vapor over ice. Unsorted
-data and repeated temperatures are fine.
+residual exceeds 3 (and that lie more than 0.2 % off the curve, so that rounding in a table is not
+taken for a bad point) are flagged; a kink in ``ln p`` against ``1/T`` (two straight lines fitting
+far better than one smooth curve) is flagged as a probable phase change, and points below the triple
+point of water that lie on the IAPWS sublimation curve are flagged as vapor over ice. Unsorted data
+and repeated temperatures are fine.
 
 Functions take and return SI (K, Pa, J/mol); the Antoine coefficients are in their conventional
 units (kPa, °C), as stated.
@@ -42,7 +42,8 @@ from .units import parse_pressure, parse_temperature, read_number
 
 __all__ = ["VaporPressureData", "CCFit", "AntoineFit", "VaporPressureFit", "VaporDataError",
            "read_vapor_pressure_table", "clausius_clapeyron_fit", "antoine_fit",
-           "antoine_pressure", "antoine_temperature", "OUTLIER_MIN_REL", "studentized_residuals", "find_kink",
+           "antoine_pressure", "antoine_temperature", "OUTLIER_MIN_REL", "studentized_residuals",
+           "find_kink",
            "fit_vapor_pressure", "DZ_NOTE", "EXTRAPOLATION_MARGIN_K", "OUTLIER_T"]
 
 #: a boiling point further than this beyond the data's temperatures is not given [K]

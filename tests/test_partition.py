@@ -15,7 +15,8 @@ from hypothesis import strategies as st
 from solutions.cli import main
 from solutions.errors import OutOfRangeError, SolutionsError, TargetError
 from solutions.partition import (EFFICACY_CAUTION, PartitionDataError, distribute,
-                                 fraction_unionized, free_unionized_water, oil_partition_coefficient,
+                                 fraction_unionized, free_unionized_water,
+                                 oil_partition_coefficient,
                                  oil_relations, partition_data, partition_entry, partition_rows,
                                  phase_profile, total_for_free, total_needed)
 

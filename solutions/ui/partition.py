@@ -87,8 +87,8 @@ def partition_chart(frame: pd.DataFrame, pH: float | None = None) -> alt.Chart:
                  alt.Tooltip("g_per_L:Q", title="g/L", format=".4g")])
     chart = base
     if pH is not None:
-        rule = alt.Chart(pd.DataFrame({"pH": [pH]})).mark_rule(color="#555555",
-                                                                  strokeDash=[4, 3]).encode(x="pH:Q")
+        rule = alt.Chart(pd.DataFrame({"pH": [pH]})).mark_rule(
+            color="#555555", strokeDash=[4, 3]).encode(x="pH:Q")
         chart = base + rule
     return chart.properties(height=300)
 
