@@ -444,7 +444,8 @@ def cmd_partition(args) -> int:
 
     def g(x, unit=" g/L"):
         return "not given (see warnings)" if x is None else f"{x:.4g}{unit}"
-    lines = [f"{out['ingredient']} in an emulsion with oil volume fraction {out['oil_volume_fraction']:g}",
+    lines = [f"{out['ingredient']} in an emulsion with oil volume fraction "
+             f"{out['oil_volume_fraction']:g}",
              f"  partitions as               {out['partitions_as']}",
              f"  log K_ow                    {g(out['log_Kow'], '')}",
              f"  K oil/water (un-ionized)    {out['partition_coefficient_unionized']:.4g}",
@@ -456,7 +457,8 @@ def cmd_partition(args) -> int:
              f"  free un-ionized in water    {g(out['free_unionized_water_g_per_L'])}",
              f"  fraction in the oil         {g(out['fraction_in_oil'], '')}"]
     if "total_needed_g_per_L" in out:
-        lines.append(f"  total to add for {out['target_free_unionized_water_g_per_L']:.4g} g/L free: "
+        lines.append(f"  total to add for {out['target_free_unionized_water_g_per_L']:.4g} g/L "
+                     "free: "
                      f"{g(out['total_needed_g_per_L'])} ({out['ingredient']} as weighed)")
     for w in out["warnings"]:
         lines.append(f"warning: {w}")
@@ -476,11 +478,8 @@ def cmd_fit_vapor_pressure(args) -> int:
             P_at = parse_pressure(args.at_pressure)
         except ValueError as exc:
             raise SolutionsError(f"--at-pressure: {exc}") from None
-    fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, at_pressure=P_at)
+    fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, at_pressure=P_at, gauge=data.gauge)
     out = fit.to_dict()
-    if data.gauge:
-        out["warnings"].insert(0, "the pressure column is gauge: 101.325 kPa was added to "
-                                  "every value")
     if args.json:
         print(dumps(out))
         return 0

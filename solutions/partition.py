@@ -24,8 +24,8 @@ With ``f = 1`` and ``k = 0`` this is Bean's expression ``C_w = C (θ + 1) / (K �
 oil:water ratio ``θ = phi / (1 − phi)``; with binding, ``C_w = C (θ + 1) / (K θ + R)`` (Bean 1972).
 
 Data (``data/partition.csv``): log K_ow, pKa, kind (acid/base/neutral), parent acid of a salt and,
-where cited, the intrinsic water solubility, each with its source. Oil/water coefficients come from a
-measured ``K`` or from log K_ow through a published linear free-energy relation
+where cited, the intrinsic water solubility, each with its source. Oil/water coefficients come from
+a measured ``K`` or from log K_ow through a published linear free-energy relation
 (``data/oil_lfer.csv``); octanol itself is the documented default and carries a warning, because
 real oils differ from it by orders of magnitude (Bean 1972, Table VII: methylparaben 0.02 in liquid
 paraffin, 7.5 in soya oil).
@@ -56,7 +56,8 @@ from scipy.special import expit
 from .errors import Caveat, OutOfRangeError, SolutionsError, TargetError, merge_caveats
 
 __all__ = ["PartitionEntry", "OilRelation", "PartitionResult", "PartitionDataError",
-           "partition_data", "partition_entry", "oil_relations", "fraction_unionized",
+           "partition_data", "partition_rows", "partition_entry", "oil_relations",
+           "fraction_unionized",
            "oil_partition_coefficient", "free_unionized_water", "total_for_free", "distribute",
            "total_needed", "phase_profile", "EFFICACY_CAUTION", "BINDING_UNIT_KG_PER_M3",
            "DEFAULT_OIL"]
@@ -347,7 +348,8 @@ def _resolve_K(entry: PartitionEntry, log_Kow, K, oil):
     elif rel.log_Kow_min is None:
         cav.append(Caveat("model-range", (
             f"The {rel.label} relation (log K = {rel.a:g} log K_ow {rel.b:+g}) is used without a "
-            "stated log K_ow range; treat K as an estimate within a factor of about 2."),
+            "stated log K_ow range; treat K as an estimate within a factor of about 3 (phenol in "
+            "arachis oil: 2.0 predicted, 5.6 measured, Bean et al. 1965)."),
             entry.key, about="partition"))
     elif not (rel.log_Kow_min <= log_Kow <= rel.log_Kow_max):
         cav.append(Caveat("model-range", (
@@ -368,7 +370,8 @@ def distribute(ingredient: str, phi: float, c_total: float, *, pH: float | None 
     c_total : total concentration as weighed, per volume of emulsion [kg/m³]
     pH : pH of the water phase [1]; ``None`` ignores ionization (with a warning)
     log_Kow : overrides the table's log K_ow [1]
-    K : a measured oil/water partition coefficient of the un-ionized form [1] (overrides oil/log_Kow)
+    K : a measured oil/water partition coefficient of the un-ionized form [1] (overrides oil and
+        log_Kow)
     oil : a key of ``data/oil_lfer.csv`` (default octanol, with a warning)
     surfactant : surfactant concentration in the water phase [kg/m³]
     binding : binding constant of the un-ionized form per % w/v of surfactant [1/(% w/v)]

@@ -11,11 +11,11 @@
   From it the normal boiling point (101.325 kPa) and the boiling point at a stated pressure.
 
 Checks: fewer than 3 points (4 for Antoine) are refused; points whose externally studentized
-residual exceeds 3 (and that lie more than 0.2 % off the curve, so that rounding in a table is
-not taken for a bad point) are flagged; a kink in ``ln p`` against ``1/T`` (two straight lines fitting far
-better than one smooth curve) is flagged as a probable phase change, and points below the triple
-point of water that lie on the IAPWS sublimation curve are flagged as vapor over ice. Unsorted
-data and repeated temperatures are fine.
+residual exceeds 3 (and that lie more than 0.2 % off the curve, so that rounding in a table is not
+taken for a bad point) are flagged; a kink in ``ln p`` against ``1/T`` (two straight lines fitting
+far better than one smooth curve) is flagged as a probable phase change, and points below the triple
+point of water that lie on the IAPWS sublimation curve are flagged as vapor over ice. Unsorted data
+and repeated temperatures are fine.
 
 Functions take and return SI (K, Pa, J/mol); the Antoine coefficients are in their conventional
 units (kPa, °C), as stated.
@@ -42,7 +42,8 @@ from .units import parse_pressure, parse_temperature, read_number
 
 __all__ = ["VaporPressureData", "CCFit", "AntoineFit", "VaporPressureFit", "VaporDataError",
            "read_vapor_pressure_table", "clausius_clapeyron_fit", "antoine_fit",
-           "antoine_pressure", "antoine_temperature", "OUTLIER_MIN_REL", "studentized_residuals", "find_kink",
+           "antoine_pressure", "antoine_temperature", "OUTLIER_MIN_REL", "studentized_residuals",
+           "find_kink",
            "fit_vapor_pressure", "DZ_NOTE", "EXTRAPOLATION_MARGIN_K", "OUTLIER_T"]
 
 #: a boiling point further than this beyond the data's temperatures is not given [K]
@@ -453,6 +454,7 @@ class VaporPressureFit:
         d["warnings"] = [c.message for c in cav]
         d["warnings_detail"] = [c.to_dict() for c in cav]
         d["notes"] = [DZ_NOTE]
+        d["cautions"] = []
         return d
 
 
@@ -477,16 +479,21 @@ def _boiling_point(fit: AntoineFit, P: float, label: str, cav: list) -> float | 
 
 
 def fit_vapor_pressure(T, P, *, rows=None, at_pressure: float | None = None,
-                       water_check: bool = True) -> VaporPressureFit:
+                       water_check: bool = True, gauge: bool = False) -> VaporPressureFit:
     """Clausius–Clapeyron and Antoine fits with boiling points and flags.
 
     T : temperatures [K]; P : pressures [Pa]; rows : each point's label (file row), default 1…n
     at_pressure : a pressure [Pa] at which to give the boiling point
     water_check : flag points below water's triple point that lie on the IAPWS sublimation curve
+    gauge : the pressures were read as gauge and made absolute by adding 101.325 kPa (warns)
     """
     T, P = _check_points(T, P, 3, "Clausius–Clapeyron fit")
     rows = tuple(rows) if rows is not None else tuple(range(1, T.size + 1))
     cav: list[Caveat] = []
+    if gauge:
+        cav.append(Caveat("gauge", "The pressure column is gauge: 101.325 kPa was added to every "
+                          "value; a vapor pressure is absolute, so check the column's unit.",
+                          about="vapor"))
     cc = clausius_clapeyron_fit(T, P)
     ant = None
     if T.size >= 4 and np.unique(np.round(T, 9)).size >= 3:

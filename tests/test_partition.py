@@ -15,7 +15,8 @@ from hypothesis import strategies as st
 from solutions.cli import main
 from solutions.errors import OutOfRangeError, SolutionsError, TargetError
 from solutions.partition import (EFFICACY_CAUTION, PartitionDataError, distribute,
-                                 fraction_unionized, free_unionized_water, oil_partition_coefficient,
+                                 fraction_unionized, free_unionized_water,
+                                 oil_partition_coefficient,
                                  oil_relations, partition_data, partition_entry, partition_rows,
                                  phase_profile, total_for_free, total_needed)
 
@@ -117,6 +118,16 @@ def test_vegetable_oil_relation_against_bean_soya_oil_coefficients():
                           ("butylparaben", 280.0)):
         K = float(oil_partition_coefficient(partition_data()[key].log_Kow, rel.a, rel.b))
         assert abs(math.log10(K) - math.log10(measured)) < 0.25, key
+
+
+def test_vegetable_oil_relation_phenol_within_the_stated_factor():
+    """Phenol in arachis oil/water: K = 5.6 measured (Bean, Heman-Ackah & Thomas 1965, Table I).
+    The relation under-predicts it (about 2.0); the caveat's stated factor of 3 covers it."""
+    rel = oil_relations()["vegetable_oil"]
+    K = float(oil_partition_coefficient(partition_data()["phenol"].log_Kow, rel.a, rel.b))
+    assert 5.6 / 3 < K < 5.6
+    r = distribute("phenol", 0.2, 1.0, oil="vegetable_oil")
+    assert any("factor of about 3" in c.message for c in r.caveats)
 
 
 # ------------------------------------------------------------------------ identities

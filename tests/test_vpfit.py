@@ -191,6 +191,13 @@ def test_units_by_header(tmp_path):
     da, db = read_vapor_pressure_table(a), read_vapor_pressure_table(b)
     assert np.allclose(da.T, db.T, rtol=1e-12) and np.allclose(da.P, db.P, rtol=1e-12)
     assert da.rows == (2, 3, 4, 5, 6)
+    g = tmp_path / "g.csv"
+    g.write_text("temperature_K,pressure_barg\n" + "".join(
+        f"{t + 273.15},{p / 1e5 - 1.01325}\n" for t, p in zip(T_C, P)))
+    dg = read_vapor_pressure_table(g)
+    assert dg.gauge and np.allclose(dg.P, da.P, rtol=1e-9)
+    fit = fit_vapor_pressure(dg.T, dg.P, gauge=dg.gauge).to_dict()
+    assert any(w["kind"] == "gauge" for w in fit["warnings_detail"])
 
 
 @pytest.mark.parametrize("text, match", [
@@ -260,3 +267,48 @@ def test_dashboard_charts_and_errors():
     cc_chart(out.result, out.points).to_dict()
     antoine_chart(out.result, out.points).to_dict()
     assert "at least 3 points" in fit_table("temperature_C,pressure_kPa\n20,2.3\n").error
+
+
+# ------------------------------------------------------------------- no escaped exception
+_cell = st.one_of(st.floats(-1e3, 1e4).map(repr), st.sampled_from(["nan", "inf", ""]),
+                  st.text(alphabet="0123456789.,-eE abc°", max_size=8))
+
+
+@settings(max_examples=150, deadline=None)
+@given(cells=st.lists(st.tuples(_cell, _cell), min_size=0, max_size=8),
+       header=st.sampled_from(["temperature_C,pressure_kPa", "temperature_K,pressure_mmHg",
+                               "temperature_F,pressure_psi", "t,p"]))
+def test_any_table_fits_or_says_why(cells, header):
+    """Whatever the cells, reading and fitting either succeed with finite numbers or raise the
+    package's own VaporDataError (a ValueError)."""
+    text = header + "\n" + "".join(f'"{a}","{b}"\n' for a, b in cells)
+    try:
+        data = read_vapor_pressure_table(text)
+        fit = fit_vapor_pressure(data.T, data.P, rows=data.rows)
+    except VaporDataError:
+        return
+    d = fit.to_dict()
+    assert np.isfinite(d["dH_vap_kJ_per_mol"])
+    json.dumps(d, allow_nan=True)
+
+
+def test_studentized_residuals_equal_leave_one_out_prediction_errors():
+    """Externally studentized residuals by their definition (Belsley, Kuh & Welsch 1980): the
+    error of predicting point i from a line fitted without it, over that prediction's standard
+    error. Checked on the CC line with noisy IF97 points."""
+    from solutions.vpfit import studentized_residuals
+    rng = np.random.default_rng(3)
+    T = np.linspace(290, 350, 8)
+    P = saturation_pressure(T) * np.exp(rng.normal(0, 0.02, T.size))
+    cc = clausius_clapeyron_fit(T, P)
+    t = studentized_residuals(cc.residuals, cc.leverage, 2)
+    x, y = 1 / T, np.log(P)
+    for i in range(T.size):
+        keep = np.arange(T.size) != i
+        X = np.column_stack([np.ones(keep.sum()), x[keep]])
+        coef, *_ = np.linalg.lstsq(X, y[keep], rcond=None)
+        r = y[keep] - X @ coef
+        s2 = r @ r / (keep.sum() - 2)
+        xi = np.array([1.0, x[i]])
+        se = np.sqrt(s2 * (1 + xi @ np.linalg.inv(X.T @ X) @ xi))
+        assert t[i] == pytest.approx((y[i] - xi @ coef) / se, rel=1e-8)

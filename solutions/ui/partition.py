@@ -87,8 +87,8 @@ def partition_chart(frame: pd.DataFrame, pH: float | None = None) -> alt.Chart:
                  alt.Tooltip("g_per_L:Q", title="g/L", format=".4g")])
     chart = base
     if pH is not None:
-        rule = alt.Chart(pd.DataFrame({"pH": [pH]})).mark_rule(color="#555555",
-                                                                  strokeDash=[4, 3]).encode(x="pH:Q")
+        rule = alt.Chart(pd.DataFrame({"pH": [pH]})).mark_rule(
+            color="#555555", strokeDash=[4, 3]).encode(x="pH:Q")
         chart = base + rule
     return chart.properties(height=300)
 
@@ -112,7 +112,9 @@ def render_partition(st) -> None:
     use_pH = c4.checkbox("Water phase pH known", value=True, key="pt_use_ph")
     pH = c4.number_input("pH", min_value=0.0, max_value=14.0, value=5.0, step=0.1,
                          key="pt_ph", disabled=not use_pH)
-    oil = c5.selectbox("Oil", oil_choices(), key="pt_oil")
+    rels = oil_relations()
+    oil = c5.selectbox("Oil", oil_choices(), key="pt_oil",
+                       format_func=lambda k: rels[k].label if k in rels else k)
     K = c5.number_input("Measured K oil/water (un-ionized)", min_value=0.0, value=1.0,
                         key="pt_K", disabled=oil != _MEASURED)
     use_bind = c6.checkbox("Micellar binding", value=False, key="pt_use_bind")

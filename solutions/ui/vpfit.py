@@ -22,9 +22,9 @@ __all__ = ["FitOutcome", "example_table", "fit_table", "cc_chart", "antoine_char
 
 
 def example_table() -> str:
-    """An example table: water between 20 and 95 °C computed from IAPWS-IF97 (5 figures)."""
+    """An example table: water between 20 and 100 °C computed from IAPWS-IF97 (5 figures)."""
     from ..water import saturation_pressure
-    t = np.array([20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0, 95.0])
+    t = np.array([20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0, 100.0])
     p = saturation_pressure(t + T_ZERO_C) / 1e3
     return "temperature_C,pressure_kPa\n" + "".join(f"{a:g},{b:.5g}\n" for a, b in zip(t, p))
 
@@ -42,7 +42,7 @@ def fit_table(text: str, at_pressure_kPa: float | None = None) -> FitOutcome:
     """Read and fit a table given as text; errors come back as the library's message."""
     try:
         data = read_vapor_pressure_table(text)
-        fit = fit_vapor_pressure(data.T, data.P, rows=data.rows,
+        fit = fit_vapor_pressure(data.T, data.P, rows=data.rows, gauge=data.gauge,
                                  at_pressure=None if at_pressure_kPa is None
                                  else at_pressure_kPa * 1e3)
     except SolutionsError as exc:
