@@ -1,14 +1,25 @@
 """The ingredient library: what each name a chemist types means chemically.
 
-The built-in library is ``solutions/data/ingredients.csv``; a user's own library is a CSV
-with the same columns (only ``name`` and one of ``formula`` / ``molar_mass_g_per_mol`` are
-required). Molar masses are computed from the formula with the standard atomic weights
-of the ``molmass`` package, unless the file gives one (e.g. PEG 400, a nominal value).
+The built-in library is ``solutions/data/ingredients.csv`` (columns documented in
+``solutions/data/ingredients_README.md``); a user's own library is a CSV with the same
+columns (only ``name`` and one of ``formula`` / ``molar_mass_g_per_mol`` are required).
+Molar masses are computed from the formula with the standard atomic weights of the
+``molmass`` package, unless the file gives one (e.g. PEG 400, a nominal value).
 
 A hydrate is weighed with its water of crystallisation; in solution that water joins the
 solvent. Each :class:`Ingredient` therefore names the dissolved ``solute`` (the model key
 used by the density and activity data, e.g. ``"CaCl2"`` for both calcium chloride forms)
-and ``hydrate_water`` (waters per formula unit).
+and ``hydrate_water`` (waters per formula unit). A stock solution of stated strength
+(``solution_pct_w_w``, e.g. hydrochloric acid 10 % w/w) is handled the same way: the water
+that comes with it is counted as that many waters per formula unit of solute.
+
+Identity rule: a key or full name is exact; a generic name ("magnesium sulfate") or a
+synonym that fits several forms is refused, listing each form with its molar mass
+(:class:`AmbiguousIngredientError`).
+
+Particles per formula unit are one fact: the ``ions`` column, or, when a row gives only a
+formula, the count read from it with the ion table ``data/ions.csv``
+(:func:`ions_from_formula`); a formula it cannot read is refused, never counted as 1.
 """
 from __future__ import annotations
 

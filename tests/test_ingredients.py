@@ -292,3 +292,27 @@ def test_acid_base_caveat():
                               lib.get("sodium citrate dihydrate")]) == []
     assert acid_base_caveats([lib.get("hydrochloric acid 10 % w/w"),
                               lib.get("tromethamine")])
+
+
+def test_stock_solution_and_acid_base_survive_a_user_library_round_trip(tmp_path):
+    """A saved stock solution keeps its total molar mass and water; acid/base marks persist."""
+    lib = default_library()
+    h = lib.get("hydrochloric acid 10 % w/w")
+    out = tmp_path / "lib.csv"
+    write_library_file(out, [h])
+    back = default_library().with_file(out).get(h.name)
+    assert back.M == pytest.approx(h.M, rel=1e-9)
+    assert back.hydrate_mass_fraction == pytest.approx(0.90, rel=1e-9)
+    assert back.acid_base == "acid"
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.text(min_size=0, max_size=30))
+def test_lookup_never_escapes(text):
+    """Any typed name: an ingredient or an IngredientError, nothing else."""
+    lib = default_library()
+    try:
+        ing = lib.get(text)
+    except IngredientError:
+        return
+    assert ing.M > 0 and ing.ions >= 1
