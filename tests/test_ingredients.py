@@ -316,3 +316,17 @@ def test_lookup_never_escapes(text):
     except IngredientError:
         return
     assert ing.M > 0 and ing.ions >= 1
+
+
+def test_recipe_row_with_formula_only():
+    """A recipe row defined inline by formula alone: potassium sorbate C6H7KO2 counts 2
+    particles (K⁺ + sorbate); a zinc salt by formula alone is refused, naming the 'ions'
+    column."""
+    from solutions.errors import RecipeError
+    from solutions.recipe import read_recipe
+    r = read_recipe("ingredient,amount,unit,formula\nhouse sorbate,0.1,g,C6H7KO2\n"
+                    "water,100,g,\n")
+    assert r.rows[0].ingredient.ions == 2
+    with pytest.raises(RecipeError, match="'ions' column"):
+        read_recipe("ingredient,amount,unit,formula\nhouse zinc salt,0.1,g,ZnCl2\n"
+                    "water,100,g,\n")
