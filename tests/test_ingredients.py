@@ -24,8 +24,8 @@ def test_library_size_and_required_entries():
                  "sorbitol", "trehalose dihydrate", "urea", "NaCl", "KCl", "CaCl2",
                  "CaCl2·2H2O", "MgCl2·6H2O", "Na2SO4", "sodium bicarbonate",
                  "sodium citrate dihydrate", "citric acid anhydrous", "sodium acetate anhydrous",
-                 "Na2HPO4", "NaH2PO4", "KH2PO4", "boric acid", "sodium lactate",
-                 "tromethamine", "potassium acetate", "potassium formate"]:
+                 "Na2HPO4", "NaH2PO4", "KH2PO4", "boric acid", "sodium lactate (solid)",
+                 "tromethamine", "potassium acetate (solid)", "potassium formate"]:
         assert name in lib, name
 
 
@@ -106,7 +106,8 @@ GENERIC = ["magnesium sulfate", "sodium citrate", "trisodium citrate", "sodium c
            "citric acid", "sodium acetate", "sodium sulfate", "magnesium chloride",
            "calcium nitrate", "disodium phosphate", "monosodium phosphate",
            "sodium phosphate dibasic", "sodium phosphate monobasic", "sodium hydroxide",
-           "hydrochloric acid", "PEG", "polyethylene glycol"]
+           "hydrochloric acid", "PEG", "polyethylene glycol", "potassium acetate",
+           "sodium lactate"]
 
 
 def test_every_generic_name_is_refused_with_molar_masses():
