@@ -93,8 +93,10 @@ _FORM_WORDS = re.compile(
 def generic_name(name: str) -> str:
     """The substance a name refers to without its form (hydrate, anhydrous, strength).
 
-    >>> generic_name("Magnesium sulfate heptahydrate"), generic_name("Sodium hydroxide solution 10 % w/w")
-    ('magnesium sulfate', 'sodium hydroxide')
+    >>> generic_name("Magnesium sulfate heptahydrate")
+    'magnesium sulfate'
+    >>> generic_name("Sodium hydroxide solution 10 % w/w")
+    'sodium hydroxide'
     """
     t = _FORM_WORDS.sub(" ", str(name).strip().lower().replace("·", "."))
     return re.sub(r"\s+", " ", t).strip(" ,")
@@ -362,7 +364,8 @@ def ingredient_from_record(rec: Mapping, *, custom: bool = False, where: str = "
     if acid_base in ("nan", "none"):
         acid_base = ""
     if acid_base not in ("", "acid", "base"):
-        raise IngredientError(label, f"acid_base must be 'acid', 'base' or empty, got {acid_base!r}")
+        raise IngredientError(label, "acid_base must be 'acid', 'base' or empty, "
+                                     f"got {acid_base!r}")
     src = str(rec.get("source") or ("user entry" if custom else "")).strip()
     caution = str(rec.get("caution") or "").strip()
     return Ingredient(key=key, name=name, formula=formula, M=M, hydrate_water=hyd,

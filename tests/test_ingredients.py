@@ -220,7 +220,8 @@ def test_stock_solution_water_joins_the_solvent():
 ])
 def test_ions_from_formula(formula, nu):
     """ν = ν_M + ν_X from charge balance with the charges of IUPAC Red Book 2005 Table IX
-    (common ions, e.g. K2CO3 → 2 K⁺ + CO3²⁻, ν = 3); molecular carbon compounds count one."""
+    (common ions, e.g. K2CO3 → 2 K⁺ + CO3²⁻, ν = 3); molecular carbon compounds count
+    one."""
     assert ions_from_formula(formula)[0] == nu
 
 
