@@ -215,10 +215,12 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     rho = float(dres.rho[0])
     props = colligative(comp, T, P, model, rho=rho)
     dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
+    from .ingredients import acid_base_caveats
     from .limits import solubility_caveats
     warnings = merge_caveats([*(c.tagged("density") for c in (*res.caveats, *dres.caveats)),
                               *props.caveats,
-                              *solubility_caveats(comp, T)])
+                              *solubility_caveats(comp, T),
+                              *(c.tagged("recipe") for c in acid_base_caveats(comp.solutes))])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings, use=use)
     ev.cautions = cautions_for(ev, use=use)

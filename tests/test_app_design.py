@@ -261,9 +261,6 @@ def test_dilution_matches_dilution_plan():
         assert_shows(t[dens].iloc[i], x[part]["density_g_per_mL"], part)
     (mix,) = [i.value for i in at.info if "on mixing" in i.value]
     assert_shows(mix.split("change of", 1)[1], x["volume_change_on_mixing_mL"], "ΔV")
-    # propylene glycol has no solution-density data: the page says the volume change
-    # cannot include its own contraction
-    assert "takes Propylene glycol as mixing ideally" in mix
     stock_note = next(c.value for c in at.caption if c.value.startswith("The stock has"))
     assert_shows(stock_note, x["stock_concentration"], "stock concentration")
 

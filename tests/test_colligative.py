@@ -225,12 +225,14 @@ def test_above_boiling_point_warns_about_pressure():
     ("Sodium acetate", "sodium acetate anhydrous"), ("Potassium dihydrogen phosphate", "KH2PO4"),
     ("Potassium hydrogen phosphate", "K2HPO4"), ("Sodium hydrogen carbonate", "sodium bicarbonate"),
     ("Sodium sulfate", "Na2SO4"), ("Magnesium chloride", "MgCl2"),
-    ("Potassium carbonate", "K2CO3"), ("Sodium carbonate", "sodium carbonate"),
+    ("Potassium carbonate", "K2CO3"),
     ("Sodium citrate dihydrate", "sodium citrate dihydrate"),
 ])
 def test_more_salts_against_crc(solute, name):
     """CRC Handbook 102nd ed. Concentrative Properties (20 °C table), freezing points over each
-    salt's tabulated range within max(0.15 K, 3 %). For the carbonates and citrate the
+    salt's tabulated range within max(0.15 K, 3 %). (Sodium carbonate is checked against
+    published osmotic data in test_pitzer_data.py: its published parameter set sits 6–13 % off
+    these CRC rows.) For potassium carbonate and citrate the
     parameters were fitted to this table (tools/fit_pitzer.py), so this is the fit's quality;
     the others use published 25 °C or temperature-dependent sets. The citrate rows are on the
     anhydrous basis, as the table's molality column shows."""

@@ -17,7 +17,7 @@ BUILT_IN = {
     "Calcium chloride": ("CaCl2", 40), "Magnesium chloride": ("MgCl2", 30),
     "Sodium sulfate": ("Na2SO4", 22), "Sodium hydrogen carbonate": ("sodium bicarbonate", 8),
     "Sodium acetate": ("sodium acetate anhydrous", 30),
-    "Sodium carbonate": ("sodium carbonate", 20), "Potassium carbonate": ("K2CO3", 50),
+    "Sodium carbonate": ("sodium carbonate anhydrous", 20), "Potassium carbonate": ("K2CO3", 50),
     "Sucrose": ("sucrose", 50), "D-Glucose": ("glucose anhydrous", 60),
     "D-Fructose": ("fructose", 48), "Glycerol": ("glycerol", 100),
     "1,2-Ethanediol": ("ethylene glycol", 60), "Ethanol": ("ethanol", 100),
