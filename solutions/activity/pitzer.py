@@ -768,21 +768,27 @@ def unsymmetrical_J(x):
     Pitzer (1991), ch. 3, App. B, Table B-1 (C. E. Harvie's method).
     """
     x = np.asarray(x, dtype=float)
-    pos = x > 0.0
-    xs = np.where(pos, x, 1.0)
-    low = xs <= 1.0
-    z = np.where(low, 4.0 * xs**0.2 - 2.0, (40.0 / 9.0) * xs**-0.1 - 22.0 / 9.0)
-    dz = np.where(low, 0.8 * xs**-0.8, -(4.0 / 9.0) * xs**-1.1)
-    b0 = b1 = b2 = d0 = d1 = d2 = np.zeros_like(xs)
-    for aL, aH in zip(_J_COEF_LOW[::-1], _J_COEF_HIGH[::-1]):
-        a = np.where(low, aL, aH)
-        b2, b1 = b1, b0
-        d2, d1 = d1, d0
-        b0 = z * b1 - b2 + a
-        d0 = b1 + z * d1 - d2
-    J = np.where(pos, 0.25 * xs - 1.0 + 0.5 * (b0 - b2), 0.0)
-    Jp = np.where(pos, 0.25 + 0.5 * dz * (d0 - d2), 0.0)
-    return J, Jp
+    J = np.zeros(x.shape)
+    Jp = np.zeros(x.shape)
+    low = (x > 0.0) & (x <= 1.0)
+    high = x > 1.0
+    for sel, coef in ((low, _J_COEF_LOW), (high, _J_COEF_HIGH)):
+        xs = x[sel]
+        if xs.size == 0:
+            continue
+        if coef is _J_COEF_LOW:
+            z, dz = 4.0 * xs**0.2 - 2.0, 0.8 * xs**-0.8
+        else:
+            z, dz = (40.0 / 9.0) * xs**-0.1 - 22.0 / 9.0, -(4.0 / 9.0) * xs**-1.1
+        b0 = b1 = b2 = d0 = d1 = d2 = np.zeros_like(xs)
+        for a in coef[::-1]:
+            b2, b1 = b1, b0
+            d2, d1 = d1, d0
+            b0 = z * b1 - b2 + a
+            d0 = b1 + z * d1 - d2
+        J[sel] = 0.25 * xs - 1.0 + 0.5 * (b0 - b2)
+        Jp[sel] = 0.25 + 0.5 * dz * (d0 - d2)
+    return (J[()], Jp[()]) if x.ndim == 0 else (J, Jp)
 
 
 def _xJp(x: np.ndarray) -> np.ndarray:
