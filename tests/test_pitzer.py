@@ -544,3 +544,12 @@ def test_mixture_bounds_property(names, fractions, T):
     assert np.all(np.isfinite(phi)) and np.all(phi > 0)
     assert np.all(ln_a <= 0.0) and np.all(np.exp(ln_a) > 0.0)
     assert isinstance(mix.caveats(m, T), list)
+
+
+def test_denormal_molalities_stay_finite():
+    """Found by the property test: CaCl2 + K2CO3 with 5e-324 mol/kg of K2CO3 gave NaN
+    (1/I overflowed in the unsymmetrical term); phi must be finite and ~1 there."""
+    mix = pitzer_mixture(["CaCl2", "K2CO3"])
+    for b in ([0.0, 5e-324], [5e-324, 5e-324], [1e-160, 1e-170]):
+        phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([b])), 259.0)
+        assert np.isfinite(phi[0]) and phi[0] == pytest.approx(1.0, abs=1e-6)

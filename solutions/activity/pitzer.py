@@ -1,4 +1,10 @@
-"""Pitzer ion-interaction model for aqueous solutions of one strong electrolyte.
+"""Pitzer ion-interaction model for aqueous solutions of strong electrolytes.
+
+Two levels: one salt (:func:`osmotic_coefficient`, below) and any mixture of salts
+(:func:`pitzer_mixture`, at the end of the module: every ion in the total ionic
+strength, every cation-anion pair with its binary parameters, θ and ψ mixing terms from
+``pitzer_mixing.csv`` and the unsymmetrical-mixing terms of Pitzer 1975). For one salt
+the two agree to rounding.
 
 The model gives the osmotic coefficient phi of water in a solution of a single
 salt M_nuM X_nuX at molality b and temperature T, and from it the water
@@ -908,14 +914,16 @@ class PitzerMixture:
 
             for i, j, theta, psis in self.like:
                 zi, zj = float(z[i]), float(z[j])
+                mm = m[:, i] * m[:, j]
                 inner = theta(T) if theta is not None else np.zeros_like(I)
-                if zi != zj:
-                    E = (zi * zj / (8.0 * safe_I)) * (xjp(zi * zj) - 0.5 * xjp(zi * zi)
-                                                      - 0.5 * xjp(zj * zj))
-                    inner = inner + np.where(I > 0.0, E, 0.0)
                 for k, psi in psis:
                     inner = inner + m[:, k] * psi(T)
-                S = S + m[:, i] * m[:, j] * inner
+                S = S + mm * inner
+                if zi != zj:
+                    # m_i m_j / I -> 0 as I -> 0; dividing before multiplying by z z/8 and
+                    # x J' keeps the product finite down to denormal molalities
+                    S = S + np.where(I > 0.0, mm / safe_I, 0.0) * (zi * zj / 8.0) * (
+                        xjp(zi * zj) - 0.5 * xjp(zi * zi) - 0.5 * xjp(zj * zj))
         total = m.sum(axis=1)
         with np.errstate(invalid="ignore", divide="ignore"):
             phi = np.where(total > 0.0, 1.0 + 2.0 * S / np.where(total > 0, total, 1.0), 1.0)
