@@ -553,3 +553,14 @@ def test_denormal_molalities_stay_finite():
     for b in ([0.0, 5e-324], [5e-324, 5e-324], [1e-160, 1e-170]):
         phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([b])), 259.0)
         assert np.isfinite(phi[0]) and phi[0] == pytest.approx(1.0, abs=1e-6)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.sampled_from(SALT_NAMES), st.floats(0.0, 1.0), st.floats(213.15, 373.15))
+def test_single_salt_equals_binary_property(name, frac, T):
+    """Any built-in salt, molality up to its b_max, -60 to 100 °C: mixture == binary."""
+    s = load_pitzer_salts()[name]
+    b = frac * s.b_max
+    mix = pitzer_mixture([name])
+    phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([[b]])), T)[0]
+    assert phi == pytest.approx(float(osmotic_coefficient(s, b, T)), abs=1e-12)
