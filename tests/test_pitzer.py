@@ -488,10 +488,12 @@ def test_missing_pair_and_mixing_parameters_are_named():
     mix = pitzer_mixture(["NaCl", "NH4Cl"])
     text = " | ".join(c.message for c in mix.notes)
     if "NH4Cl" not in load_pitzer_salts():
-        assert "ion pair NH4⁺-Cl⁻" in text
-    assert "θ in the data for Na⁺-NH4⁺" in text
-    assert "ψ in the data for Na⁺-NH4⁺-Cl⁻" in text
+        assert "no Pitzer parameters for ion pair NH4⁺-Cl⁻:" in text
+    assert "taken as zero: θ and ψ of Na⁺-NH4⁺ (" in text
     assert all(c.kind == "missing-parameters" for c in mix.notes)
+    # a pair with θ but without some ψ names only the missing triplets
+    text = " | ".join(c.message for c in pitzer_mixture(["NaCl", "KCl", "KH2PO4"]).notes)
+    assert "ψ of Na⁺-K⁺-H2PO4⁻" in text and "θ and ψ of Cl⁻-H2PO4⁻" in text
 
 
 def test_unknown_salt_raises():

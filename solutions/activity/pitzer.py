@@ -1017,18 +1017,20 @@ def pitzer_mixture(salts) -> PitzerMixture:
     cations = [n for n in names if ions[n] > 0]
     anions = [n for n in names if ions[n] < 0]
     notes: list[Caveat] = []
-    pairs = []
+    pairs, no_pair = [], []
     for c in cations:
         for a in anions:
             salt = pair_salt.get((c, a))
             pairs.append((idx[c], idx[a], salt))
             if salt is None:
-                notes.append(Caveat(
-                    "missing-parameters",
-                    f"no Pitzer parameters for the ion pair {lab[c]}-{lab[a]}: its short-range "
-                    "interaction is taken as zero (Debye-Hückel term only), so the water "
-                    "activity of this mixture is approximate",
-                    f"{lab[c]}-{lab[a]}", extra={"pair": [c, a]}))
+                no_pair.append(f"{lab[c]}-{lab[a]}")
+    if no_pair:
+        notes.append(Caveat(
+            "missing-parameters",
+            f"no Pitzer parameters for ion pair{'s' if len(no_pair) > 1 else ''} "
+            + ", ".join(no_pair) + ": short-range interaction taken as zero (Debye-Hückel "
+            "term only), so the water activity is approximate",
+            ", ".join(no_pair), extra={"pairs": no_pair}))
     like, no_theta, no_psi = [], [], []
     for group, other in ((cations, anions), (anions, cations)):
         for p in range(len(group)):
@@ -1040,22 +1042,19 @@ def pitzer_mixture(salts) -> PitzerMixture:
                 psis = []
                 for k in other:
                     psi = mixing.get(("psi", frozenset((i, j)), k))
-                    if psi is None:
-                        no_psi.append(f"{lab[i]}-{lab[j]}-{lab[k]}")
-                    else:
+                    if psi is not None:
                         psis.append((idx[k], psi))
+                    elif theta is not None:  # a pair without θ is reported once, whole
+                        no_psi.append(f"{lab[i]}-{lab[j]}-{lab[k]}")
                 like.append((idx[i], idx[j], theta, tuple(psis)))
-    if no_theta:
+    if no_theta or no_psi:
+        parts = ([f"θ and ψ of {', '.join(no_theta)}"] if no_theta else []) + (
+            [f"ψ of {', '.join(no_psi)}"] if no_psi else [])
         notes.append(Caveat(
             "missing-parameters",
-            "no published mixing parameter θ in the data for " + ", ".join(no_theta)
-            + ": taken as zero (the electrostatic unsymmetrical-mixing term is still "
-            "included)", ", ".join(no_theta), extra={"theta": no_theta}))
-    if no_psi:
-        notes.append(Caveat(
-            "missing-parameters",
-            "no published mixing parameter ψ in the data for " + ", ".join(no_psi)
-            + ": taken as zero", ", ".join(no_psi), extra={"psi": no_psi}))
+            "no published mixing parameters in the data, taken as zero: " + "; ".join(parts)
+            + " (the electrostatic unsymmetrical-mixing term is still included)",
+            ", ".join(no_theta + no_psi), extra={"theta": no_theta, "psi": no_psi}))
     return PitzerMixture(salts, names, z, stoich, tuple(pairs), tuple(like), tuple(notes))
 
 
