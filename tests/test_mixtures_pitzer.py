@@ -10,7 +10,10 @@ Two kinds of check:
   unsymmetrical ^Eθ terms) independently of our data;
 * the model as shipped (our binary and mixing tables) against HMW84 at 25 °C: within 1 %
   of phi up to I = 3 mol/kg for NaCl + KCl, + CaCl2, + MgCl2 and + Na2SO4 (each salt giving
-  half the ionic strength). The Ross product rule used before is shown beside it.
+  half the ionic strength). The Ross product rule used before is shown beside it. These
+  reference values are recorded in tests/reference/mixtures_pitzer_hmw84.csv by
+  tools/reference_mixtures_pytzer.py, so they are checked where pytzer (and jax) are not
+  installed; where they are, a test recomputes the table live and the equation checks run.
 
 Figures at 25 °C (I = 0.5, 1, 2, 3 mol/kg), error of phi against the reference:
 
@@ -25,6 +28,10 @@ NaCl + Na2SO4   +0.32 %, +0.54 %, +0.82 %, +0.90 %      +2.36 %, +2.07 %, +0.71 
 """
 from __future__ import annotations
 
+import csv
+import importlib.util
+from pathlib import Path
+
 import numpy as np
 import pytest
 
@@ -37,71 +44,62 @@ from solutions.activity.pitzer import (
     PitzerSalt,
     TFunction,
     load_pitzer_salts,
-    load_salt_ions,
     osmotic_coefficient,
     pitzer_mixture,
 )
 from solutions.composition import Composition
 from solutions.ingredients import default_library
 
-jax = pytest.importorskip("jax")
-jax.config.update("jax_enable_x64", True)
-pz = pytest.importorskip("pytzer")
-from pytzer import debyehueckel as _dh  # noqa: E402
-from pytzer import parameters as _prm  # noqa: E402
-from pytzer import unsymmetrical as _unsym  # noqa: E402
-
+ROOT = Path(__file__).resolve().parents[1]
+REFERENCE_CSV = ROOT / "tests" / "reference" / "mixtures_pitzer_hmw84.csv"
 T25 = 298.15
-PRESSURE_DBAR = 10.10325  # 1 atm, pytzer's pressure unit
-PAIRS = [("Na", "Cl"), ("K", "Cl"), ("Ca", "Cl"), ("Mg", "Cl"), ("Na", "SO4"), ("K", "SO4"),
-         ("Mg", "SO4")]
-THETA = [("K", "Na"), ("Ca", "Na"), ("Mg", "Na"), ("Ca", "K"), ("Ca", "Mg"), ("Cl", "SO4")]
-PSI_CCA = [("K", "Na", "Cl"), ("Ca", "Na", "Cl"), ("Mg", "Na", "Cl"), ("Ca", "K", "Cl"),
-           ("Ca", "Mg", "Cl"), ("K", "Na", "SO4"), ("Mg", "Na", "SO4")]
-PSI_CAA = [("Na", "Cl", "SO4"), ("K", "Cl", "SO4"), ("Mg", "Cl", "SO4")]
+
+
+def _tool():
+    """tools/reference_mixtures_pytzer.py as a module (it builds the outside reference)."""
+    spec = importlib.util.spec_from_file_location(
+        "reference_mixtures_pytzer", ROOT / "tools" / "reference_mixtures_pytzer.py")
+    mod = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(mod)
+    return mod
+
+
+TOOL = _tool()
+PAIRS, THETA, PSI_CCA, PSI_CAA = TOOL.PAIRS, TOOL.THETA, TOOL.PSI_CCA, TOOL.PSI_CAA
+
+
+def _reference_rows() -> list[dict]:
+    with open(REFERENCE_CSV, newline="", encoding="utf-8") as fh:
+        return list(csv.DictReader(fh))
+
+
+def _salt_b(row: dict) -> dict[str, float]:
+    return {k[2:]: float(v) for k, v in row.items() if k.startswith("b_") and float(v) > 0}
 
 
 @pytest.fixture(scope="module")
 def reference():
-    """pytzer with HMW84 parameters for Na-K-Ca-Mg-Cl-SO4 (Harvie's J, M88 A_phi)."""
-    lib = pz.Library(name="HMW84-subset")
-    lib.update_Aphi(_dh.Aosm_M88)
-    lib.update_func_J(_unsym.Harvie)
-    for c, a in PAIRS:
-        lib.update_ca(c, a, getattr(_prm, f"bC_{c}_{a}_HMW84"))
-    for i, j in THETA:
-        (lib.update_aa if i in ("Cl", "SO4") else lib.update_cc)(
-            i, j, getattr(_prm, f"theta_{i}_{j}_HMW84"))
-    for i, j, k in PSI_CCA:
-        lib.update_cca(i, j, k, getattr(_prm, f"psi_{i}_{j}_{k}_HMW84"))
-    for c, a1, a2 in PSI_CAA:
-        lib.update_caa(c, a1, a2, getattr(_prm, f"psi_{c}_{a1}_{a2}_HMW84"))
-    model = pz.set_library(pz, lib)
-    ions = lib.cations + lib.anions
-
-    def phi(molalities: dict[str, float], T: float = T25) -> float:
-        full = {i: 0.0 for i in ions}
-        full.update(molalities)
-        return float(model.osmotic_coefficient(full, T, PRESSURE_DBAR))
-
-    return phi
+    """Live pytzer with HMW84 parameters (skipped where pytzer/jax are not installed)."""
+    pytest.importorskip("jax")
+    pytest.importorskip("pytzer")
+    return TOOL.hmw84_reference()[0]
 
 
-def _ion_molalities(salt_b: dict[str, float]) -> dict[str, float]:
-    table = load_salt_ions()
-    out: dict[str, float] = {}
-    for s, b in salt_b.items():
-        t = table[s]
-        out[t.cation] = out.get(t.cation, 0.0) + t.nu_cation * b
-        out[t.anion] = out.get(t.anion, 0.0) + t.nu_anion * b
-    return out
+@pytest.fixture(scope="module")
+def prm():
+    pytest.importorskip("jax")
+    pytest.importorskip("pytzer")
+    import jax
+    jax.config.update("jax_enable_x64", True)
+    from pytzer import debyehueckel, parameters
+    return parameters, debyehueckel
 
 
 def _const(v: float) -> TFunction:
     return TFunction("const", (float(v),))
 
 
-def _hmw84_mixture(ion_names: tuple[str, ...]) -> PitzerMixture:
+def _hmw84_mixture(ion_names: tuple[str, ...], _prm) -> PitzerMixture:
     """Our PitzerMixture built from pytzer's HMW84 values (not from our tables)."""
     z = np.array([{"Na": 1, "K": 1, "Ca": 2, "Mg": 2, "Cl": -1, "SO4": -2}[n]
                   for n in ion_names], dtype=float)
@@ -157,27 +155,29 @@ EQUATION_CASES = [
 
 
 @pytest.mark.parametrize("case", EQUATION_CASES)
-def test_equations_match_outside_implementation(reference, monkeypatch, case):
+def test_equations_match_outside_implementation(reference, prm, monkeypatch, case):
     """Same HMW84 parameters and the same A_phi (M88 equation, 0.391475 at 25 °C) in our
     equations and in pytzer: phi agrees to 1e-9 for mixtures with unsymmetrical cation
     (Na⁺-Mg²⁺, Na⁺-Ca²⁺) and anion (Cl⁻-SO4²⁻) mixing, ψ terms, and a 2-2 pair (β2)."""
+    _prm, _dh = prm
     A = float(_dh.Aosm_M88(T25, 10)[0])
     assert A == pytest.approx(0.3915, abs=5e-4)
     monkeypatch.setattr(pitzer, "debye_huckel_Aphi", lambda T: np.full(np.shape(T), A))
     names = tuple(case)
-    mix = _hmw84_mixture(names)
+    mix = _hmw84_mixture(names, _prm)
     ours = mix.osmotic_coefficient(np.array([[case[n] for n in names]]), T25)[0]
     assert ours == pytest.approx(reference(case), abs=1e-9)
 
 
-def test_equation_check_can_fail(reference, monkeypatch):
+def test_equation_check_can_fail(reference, prm, monkeypatch):
     """The check above is not blind: drop the ψ terms and NaCl + MgCl2 at I = 3 differs
     from the reference by more than 1e-4."""
+    _prm, _dh = prm
     A = float(_dh.Aosm_M88(T25, 10)[0])
     monkeypatch.setattr(pitzer, "debye_huckel_Aphi", lambda T: np.full(np.shape(T), A))
     case = EQUATION_CASES[0]
     names = tuple(case)
-    mix = _hmw84_mixture(names)
+    mix = _hmw84_mixture(names, _prm)
     broken = PitzerMixture((), mix.ions, mix.z, mix.stoich, mix.pairs,
                            tuple((i, j, th, ()) for i, j, th, _ in mix.like))
     phi = broken.osmotic_coefficient(np.array([[case[n] for n in names]]), T25)[0]
@@ -191,36 +191,48 @@ def _ross_phi(salt_b: dict[str, float], T: float = T25) -> float:
     return float(num / sum(salts[s].nu * b for s, b in salt_b.items()))
 
 
-def _half_and_half(other: str, I: float) -> dict[str, float]:
-    """NaCl and ``other`` each giving half of the ionic strength I [mol/kg]."""
-    t = load_salt_ions()[other]
-    I_per_b = 0.5 * (t.nu_cation * t.z_cation**2 + t.nu_anion * t.z_anion**2)
-    return {"NaCl": I / 2, other: I / 2 / I_per_b}
+def _ours(salt_b: dict[str, float], T: float = T25) -> float:
+    mix = pitzer_mixture(list(salt_b))
+    return float(mix.osmotic_coefficient(
+        mix.ion_molalities(np.array([list(salt_b.values())])), T)[0])
 
 
-@pytest.mark.parametrize("other", ["KCl", "CaCl2", "MgCl2", "Na2SO4"])
-@pytest.mark.parametrize("I", [0.5, 1.0, 2.0, 3.0])
-def test_shipped_model_within_1_percent_of_hmw84(reference, other, I):
+def test_reference_table_shape():
+    """The recorded outside reference: 16 rows, a source, phi of NaCl + MgCl2 at I = 3
+    mol/kg = 1.0820 (pytzer / HMW84)."""
+    rows = _reference_rows()
+    assert len(rows) == 16 and all("pytzer" in r["source"] for r in rows)
+    row = next(r for r in rows if r["mixture"] == "NaCl+MgCl2" and float(r["I_mol_per_kg"]) == 3)
+    assert float(row["phi"]) == pytest.approx(1.0820, abs=5e-5)
+
+
+@pytest.mark.parametrize("row", _reference_rows(),
+                         ids=lambda r: f"{r['mixture']}-I{r['I_mol_per_kg']}")
+def test_shipped_model_within_1_percent_of_hmw84(row):
     """NaCl + other salt at 25 °C, half the ionic strength from each, up to I = 3 mol/kg:
     our tables (Møller 1988, Greenberg & Møller 1989, Appelo 2015 binaries; HMW84 / Møller
     mixing terms) give phi within 1 % of Harvie, Møller & Weare (1984) as computed by
-    pytzer. Errors in the module docstring."""
-    salt_b = _half_and_half(other, I)
-    ref = reference(_ion_molalities(salt_b))
-    mix = pitzer_mixture(list(salt_b))
-    phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([list(salt_b.values())])), T25)[0]
-    assert phi == pytest.approx(ref, rel=0.01)
+    pytzer (tests/reference/mixtures_pitzer_hmw84.csv). Errors in the module docstring."""
+    assert _ours(_salt_b(row)) == pytest.approx(float(row["phi"]), rel=0.01)
 
 
 @pytest.mark.parametrize("other, ross_error_min", [("CaCl2", 0.10), ("MgCl2", 0.11),
                                                    ("KCl", 0.045)])
-def test_ross_rule_was_far_off_at_3_molal(reference, other, ross_error_min):
+def test_ross_rule_was_far_off_at_3_molal(other, ross_error_min):
     """The rule this model replaces: at I = 3 mol/kg the Ross product of single-salt
-    Pitzer models is low by about 11 % (CaCl2, MgCl2) and 5 % (KCl) in phi against
-    HMW84, where the mixed model is within 1 %."""
-    salt_b = _half_and_half(other, 3.0)
-    ref = reference(_ion_molalities(salt_b))
-    assert (ref - _ross_phi(salt_b)) / ref > ross_error_min
+    Pitzer models is low by about 11 % (CaCl2), 12 % (MgCl2) and 5 % (KCl) in phi against
+    HMW84 (pytzer), where the mixed model is within 1 %."""
+    row = next(r for r in _reference_rows()
+               if r["mixture"] == f"NaCl+{other}" and float(r["I_mol_per_kg"]) == 3.0)
+    ref = float(row["phi"])
+    assert (ref - _ross_phi(_salt_b(row))) / ref > ross_error_min
+
+
+def test_reference_table_matches_live_outside_implementation(reference):
+    """The recorded table is what pytzer computes now (to 1e-9)."""
+    for row in _reference_rows():
+        m = {k[2:]: float(v) for k, v in row.items() if k.startswith("m_") and float(v) > 0}
+        assert reference(m) == pytest.approx(float(row["phi"]), abs=1e-9)
 
 
 # ------------------------------------------------------------ through the activity models
