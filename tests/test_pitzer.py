@@ -566,3 +566,14 @@ def test_single_salt_equals_binary_property(name, frac, T):
     mix = pitzer_mixture([name])
     phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([[b]])), T)[0]
     assert phi == pytest.approx(float(osmotic_coefficient(s, b, T)), abs=1e-12)
+
+
+def test_mixture_phi_continuous_in_temperature():
+    """A six-salt brine, -5 to 30 °C in 0.01 K steps: phi has no step where the low and
+    high parameter sets hand over (largest step < 2e-5 per 0.01 K)."""
+    mix = pitzer_mixture(["NaCl", "KCl", "CaCl2", "MgCl2", "Na2SO4", "NaHCO3"])
+    T = np.linspace(268.15, 303.15, 3501)
+    b = np.tile([[1.0, 0.2, 0.2, 0.3, 0.1, 0.01]], (T.size, 1))
+    phi = mix.osmotic_coefficient(mix.ion_molalities(b), T)
+    assert np.all(np.isfinite(phi))
+    assert np.max(np.abs(np.diff(phi))) < 2e-5
