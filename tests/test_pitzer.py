@@ -312,3 +312,268 @@ def test_every_row_has_a_source():
         assert r["b_max_source"].strip(), r
     memory = {r["salt"] for r in rows if "from memory" in r["source"]}
     assert memory == {"NaC2H3O2", "KC2H3O2"}
+
+
+# =============================================================== mixtures of salts
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+from scipy.integrate import quad  # noqa: E402
+
+from solutions.activity.pitzer import (  # noqa: E402
+    ion_charges,
+    ion_label,
+    load_mixing_parameters,
+    load_salt_ions,
+    pitzer_mixture,
+    unsymmetrical_J,
+)
+from solutions.errors import SolutionsError  # noqa: E402
+
+IONS_FILE = ROOT / "solutions" / "data" / "pitzer_salt_ions.csv"
+MIXING_FILE = ROOT / "solutions" / "data" / "pitzer_mixing.csv"
+
+
+def _J_by_quadrature(x):
+    """Pitzer (1975) eq. 45 / Pitzer (1991) eq. B-13, integrated numerically."""
+    def f(y):
+        q = -(x / y) * np.exp(-y)
+        return (1.0 + q + 0.5 * q * q - np.exp(q)) * y * y
+    return quad(f, 0.0, np.inf, limit=400, epsabs=1e-13)[0] / x
+
+
+@pytest.mark.parametrize("x", [0.01, 0.1, 0.5, 1.0, 2.0, 5.0, 20.0, 80.0])
+def test_J_matches_its_defining_integral(x):
+    """Harvie's Chebyshev series (Pitzer 1991, App. B, Table B-1) against the integral
+    that defines J (Pitzer 1975 eq. 45), to 1e-9 (the series is good to about 3e-10), and
+    J' against a central difference of J. Also the
+    published limit J -> x/4 - 1 for large x (Pitzer 1975)."""
+    J, Jp = unsymmetrical_J(x)
+    assert J == pytest.approx(_J_by_quadrature(x), rel=1e-7, abs=1e-9)
+    h = 1e-4 * x
+    Jh = unsymmetrical_J(np.array([x - h, x + h]))[0]
+    assert Jp == pytest.approx((Jh[1] - Jh[0]) / (2 * h), rel=1e-6)
+    if x >= 80.0:
+        assert J == pytest.approx(x / 4 - 1, rel=0.02)
+
+
+def test_J_at_zero_and_vectorized():
+    J, Jp = unsymmetrical_J(np.array([0.0, 1e-8, 1.0, 1.0 + 1e-12]))
+    assert J[0] == 0.0 and Jp[0] == 0.0
+    assert abs(J[1]) < 1e-9  # the series is good to about 3e-10
+    assert J[2] == pytest.approx(J[3], abs=1e-10)  # the two series meet at x = 1
+
+
+# ------------------------------------------------------------------ the ion table
+
+NEW_SALT_KEYS = ["KHCO2", "NaHCO2", "KC2H3O2", "NaC2H3O2", "NaC3H5O3", "Na3C6H5O7", "K2SO4",
+                 "(NH4)2SO4", "NH4Cl", "NaNO3", "Ca(NO3)2"]
+
+
+def test_every_binary_salt_has_ions_with_matching_charges(salts):
+    """Each salt of pitzer_binary.csv is in pitzer_salt_ions.csv with the same charges and
+    stoichiometry, and every row is electrically neutral with a source."""
+    ions = load_salt_ions()
+    for name, s in salts.items():
+        si = ions[name]
+        assert (si.z_cation, si.z_anion, si.nu_cation, si.nu_anion) == (s.z_M, s.z_X, s.nu_M,
+                                                                         s.nu_X)
+    for key in NEW_SALT_KEYS:
+        assert key in ions
+    for si in ions.values():
+        assert si.nu_cation * si.z_cation + si.nu_anion * si.z_anion == 0
+        assert si.source.strip()
+    assert ions["Na3C6H5O7"].anion == "citrate" and ions["Na3C6H5O7"].z_anion == -3
+    assert ion_charges()["Ca"] == 2 and ion_charges()["SO4"] == -2
+
+
+def test_ion_labels():
+    assert ion_label("Na", 1) == "Na⁺"
+    assert ion_label("SO4", -2) == "SO4²⁻"
+    assert ion_label("citrate", -3) == "citrate³⁻"
+
+
+def test_ion_table_rejects_unbalanced_row(tmp_path):
+    bad = tmp_path / "ions.csv"
+    bad.write_text("salt,cation,z_cation,nu_cation,anion,z_anion,nu_anion,source\n"
+                   "CaCl,Ca,2,1,Cl,-1,1,test\n", encoding="utf-8")
+    with pytest.raises(SolutionsError, match="CaCl is not electrically neutral"):
+        pitzer._load_salt_ions(str(bad))
+
+
+# -------------------------------------------------------------- the mixing table
+
+def test_mixing_table_shape_and_sources():
+    """Every θ/ψ row names ions of the ion table with the right signs, a range and a source."""
+    charges = ion_charges()
+    with open(MIXING_FILE, newline="", encoding="utf-8") as fh:
+        rows = list(csv.DictReader(fh))
+    assert len(rows) >= 70
+    for r in rows:
+        assert r["source"].strip()
+        assert float(r["T_min_K"]) <= float(r["T_max_K"])
+        zi, zj = charges[r["ion_1"]], charges[r["ion_2"]]
+        assert zi * zj > 0
+        if r["param"] == "psi":
+            assert charges[r["ion_3"]] * zi < 0
+    mix = load_mixing_parameters()
+    for pair in [("Na", "K"), ("Na", "Ca"), ("Na", "Mg"), ("K", "Ca"), ("K", "Mg"),
+                 ("Ca", "Mg"), ("Cl", "SO4"), ("Cl", "HCO3"), ("Cl", "CO3"), ("SO4", "HCO3")]:
+        assert ("theta", frozenset(pair)) in mix
+
+
+@pytest.mark.parametrize("kind, ions, T, value, tol", [
+    # Harvie, Møller & Weare (1984) Table 2, 25 °C (high set at 25 °C)
+    ("theta", ("Na", "Mg"), 298.15, 0.07, 1e-12),
+    ("psi", ("Na", "Mg", "Cl"), 298.15, -0.012, 1e-12),
+    ("psi", ("K", "Mg", "SO4"), 298.15, -0.048, 1e-12),
+    ("theta", ("Cl", "HCO3"), 298.15, 0.03, 1e-12),
+    # Møller (1988): theta(Na, Ca) = 0.05, psi(Na, Ca, Cl) = -0.003 from 25 °C up
+    ("theta", ("Na", "Ca"), 320.0, 0.05, 1e-12),
+    ("psi", ("Na", "Ca", "Cl"), 320.0, -0.003, 1e-12),
+    # Greenberg & Møller (1989) eq. 3: theta(Na, K) = -0.0502312111 + 14.0213141/T
+    ("theta", ("Na", "K"), 350.0, -0.0502312111 + 14.0213141 / 350.0, 1e-12),
+    # Spencer, Møller & Weare (1990) low-T set (frezchem.dat): value a1 at 25 °C is
+    # theta(Na, K) = -0.00948; below 0 °C the low set alone is used
+    ("theta", ("Na", "K"), 263.15, -0.00948 + 612.415 * (1 / 263.15 - 1 / 298.15)
+     + 3.02995 * np.log(263.15 / 298.15) - 0.00369038 * (263.15 - 298.15), 1e-12),
+])
+def test_mixing_parameter_values(kind, ions, T, value, tol):
+    key = ("theta", frozenset(ions)) if kind == "theta" else ("psi", frozenset(ions[:2]),
+                                                                ions[2])
+    assert load_mixing_parameters()[key](T) == pytest.approx(value, abs=tol)
+
+
+def test_mixing_parameters_continuous_across_blend():
+    T = np.linspace(268.0, 303.0, 3501)
+    for p in load_mixing_parameters().values():
+        v = p(T)
+        assert np.all(np.isfinite(v))
+        assert np.max(np.abs(np.diff(v))) < 5e-4, p.ions
+
+
+# -------------------------------------------------------- single salt ≡ binary model
+
+@pytest.mark.parametrize("name", sorted(load_pitzer_salts()))
+def test_single_salt_mixture_equals_binary(salts, name):
+    """A mixture of one salt is that salt's binary model, to 1e-12."""
+    s = salts[name]
+    mix = pitzer_mixture([name])
+    b = np.linspace(0.0, s.b_max, 13)
+    T = np.linspace(250.0, 340.0, 13)
+    m = mix.ion_molalities(b[:, None])
+    assert np.max(np.abs(mix.osmotic_coefficient(m, T) - osmotic_coefficient(s, b, T))) <= 1e-12
+    assert np.max(np.abs(mix.ln_water_activity(m, T) - ln_water_activity(s, b, T))) <= 1e-12
+    assert mix.notes == ()
+
+
+def test_zero_molality_gives_phi_one():
+    mix = pitzer_mixture(["NaCl", "MgSO4"])
+    assert mix.osmotic_coefficient(np.zeros((2, 4)), 298.15).tolist() == [1.0, 1.0]
+    assert mix.ln_water_activity(np.zeros(4), 298.15).tolist() == [0.0]
+
+
+def test_cross_pair_uses_its_own_binary(salts):
+    """NaCl + MgSO4: the Na⁺-SO4²⁻ pair takes Na2SO4's parameters and Mg²⁺-Cl⁻ takes
+    MgCl2's, though neither salt was named."""
+    mix = pitzer_mixture(["NaCl", "MgSO4"])
+    names = {(mix.ions[c], mix.ions[a]): s.name for c, a, s in mix.pairs}
+    assert names == {("Na", "Cl"): "NaCl", ("Na", "SO4"): "Na2SO4",
+                     ("Mg", "Cl"): "MgCl2", ("Mg", "SO4"): "MgSO4"}
+    assert mix.notes == ()
+
+
+def test_missing_pair_and_mixing_parameters_are_named():
+    """NaCl + NH4Cl (no NH4Cl binary, no θ(Na⁺, NH4⁺)): B = C = 0 and θ = ψ = 0, each said."""
+    mix = pitzer_mixture(["NaCl", "NH4Cl"])
+    text = " | ".join(c.message for c in mix.notes)
+    if "NH4Cl" not in load_pitzer_salts():
+        assert "no Pitzer parameters for ion pair NH4⁺-Cl⁻:" in text
+    assert "taken as zero: θ and ψ of Na⁺-NH4⁺ (" in text
+    assert all(c.kind == "missing-parameters" for c in mix.notes)
+    # a pair with θ but without some ψ names only the missing triplets
+    text = " | ".join(c.message for c in pitzer_mixture(["NaCl", "KCl", "KH2PO4"]).notes)
+    assert "ψ of Na⁺-K⁺-H2PO4⁻" in text and "θ and ψ of Cl⁻-H2PO4⁻" in text
+
+
+def test_unknown_salt_raises():
+    with pytest.raises(SolutionsError, match="no ions known for salt 'NaXyz'"):
+        pitzer_mixture(["NaXyz"])
+
+
+def test_mixture_temperature_caveats():
+    """θ(Na⁺, Mg²⁺) is published for 25 °C (high set) and down to -60 °C (low set): at
+    40 °C it is used unchanged and the caveat says so; at 10 °C nothing is said."""
+    mix = pitzer_mixture(["NaCl", "MgCl2"])
+    m = mix.ion_molalities(np.array([[1.0, 0.3]]))
+    assert not mix.caveats(m, 283.15)
+    msgs = [c.message for c in mix.caveats(m, 313.15)]
+    assert any(t.startswith("θ(Na⁺, Mg²⁺): temperature 40 °C is outside") for t in msgs)
+
+
+def test_unsymmetrical_term_matters():
+    """Break the model on purpose: without the ^Eθ terms, NaCl + MgCl2 at I = 3 mol/kg
+    moves by more than 0.005 in phi (so the tests comparing with an outside
+    implementation would catch a missing or wrong J)."""
+    mix = pitzer_mixture(["NaCl", "MgCl2"])
+    m = mix.ion_molalities(np.array([[1.5, 0.5]]))
+    phi = mix.osmotic_coefficient(m, 298.15)[0]
+    orig = pitzer._xJp
+    try:
+        pitzer._xJp = lambda x: np.zeros_like(x)
+        phi_broken = mix.osmotic_coefficient(m, 298.15)[0]
+    finally:
+        pitzer._xJp = orig
+    assert abs(phi - phi_broken) > 0.005
+
+
+SALT_NAMES = sorted(load_pitzer_salts())
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.lists(st.sampled_from(SALT_NAMES), min_size=1, max_size=4, unique=True),
+       st.lists(st.floats(0.0, 1.0), min_size=4, max_size=4),
+       st.floats(258.15, 333.15))
+def test_mixture_bounds_property(names, fractions, T):
+    """Any mix of built-in salts, each within b_max / (number of salts), 258-333 K:
+    phi finite and > 0, a_w in (0, 1], no exception."""
+    salts = load_pitzer_salts()
+    mix = pitzer_mixture(names)
+    b = np.array([[f * salts[n].b_max / len(names) for n, f in zip(names, fractions)]])
+    m = mix.ion_molalities(b)
+    phi = mix.osmotic_coefficient(m, T)
+    ln_a = mix.ln_water_activity(m, T)
+    assert np.all(np.isfinite(phi)) and np.all(phi > 0)
+    assert np.all(ln_a <= 0.0) and np.all(np.exp(ln_a) > 0.0)
+    assert isinstance(mix.caveats(m, T), list)
+
+
+def test_denormal_molalities_stay_finite():
+    """Found by the property test: CaCl2 + K2CO3 with 5e-324 mol/kg of K2CO3 gave NaN
+    (1/I overflowed in the unsymmetrical term); phi must be finite and ~1 there."""
+    mix = pitzer_mixture(["CaCl2", "K2CO3"])
+    for b in ([0.0, 5e-324], [5e-324, 5e-324], [1e-160, 1e-170]):
+        phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([b])), 259.0)
+        assert np.isfinite(phi[0]) and phi[0] == pytest.approx(1.0, abs=1e-6)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.sampled_from(SALT_NAMES), st.floats(0.0, 1.0), st.floats(213.15, 373.15))
+def test_single_salt_equals_binary_property(name, frac, T):
+    """Any built-in salt, molality up to its b_max, -60 to 100 °C: mixture == binary."""
+    s = load_pitzer_salts()[name]
+    b = frac * s.b_max
+    mix = pitzer_mixture([name])
+    phi = mix.osmotic_coefficient(mix.ion_molalities(np.array([[b]])), T)[0]
+    assert phi == pytest.approx(float(osmotic_coefficient(s, b, T)), abs=1e-12)
+
+
+def test_mixture_phi_continuous_in_temperature():
+    """A six-salt brine, -5 to 30 °C in 0.01 K steps: phi has no step where the low and
+    high parameter sets hand over (largest step < 2e-5 per 0.01 K)."""
+    mix = pitzer_mixture(["NaCl", "KCl", "CaCl2", "MgCl2", "Na2SO4", "NaHCO3"])
+    T = np.linspace(268.15, 303.15, 3501)
+    b = np.tile([[1.0, 0.2, 0.2, 0.3, 0.1, 0.01]], (T.size, 1))
+    phi = mix.osmotic_coefficient(mix.ion_molalities(b), T)
+    assert np.all(np.isfinite(phi))
+    assert np.max(np.abs(np.diff(phi))) < 2e-5

@@ -18,6 +18,12 @@ model:
     named in a caveat. Several ingredients that dissolve to the same solute (a salt and
     its hydrate) are summed first.
 
+    Salts are not combined by the Ross rule among themselves: all of them enter one
+    term, the Pitzer mixed-electrolyte equations at their ion molalities (every ion in
+    the total ionic strength, cross pairs and mixing parameters θ, ψ; see
+    :func:`solutions.activity.pitzer.pitzer_mixture`), and that term is one factor of
+    the product.
+
 Non-aqueous solvents have no non-ideal data here: ``nonideal`` falls back to ``ideal``
 with a caveat.
 
@@ -87,11 +93,13 @@ _PITZER_ALIASES = {
 
 
 def _pitzer_salt(key: str):
+    """(pitzer module, binary PitzerSalt or None, key of the salt's ions or None)."""
     mod, salts = _pitzer_salts()
-    for k in (key, *_PITZER_ALIASES.get(key, ())):
-        if k in salts:
-            return mod, salts[k]
-    return mod, None
+    keys = (key, *_PITZER_ALIASES.get(key, ()))
+    binary = next((salts[k] for k in keys if k in salts), None)
+    ion_table = mod.load_salt_ions() if mod is not None else {}
+    ion_key = next((k for k in keys if k in ion_table), None)
+    return mod, binary, ion_key
 
 
 def solute_groups(comp: Composition) -> dict[str, tuple[list[int], object]]:
@@ -119,6 +127,22 @@ class ActivityTerms:
     ions: np.ndarray                 # ideal particles per formula unit, per group
     M_solvent: float                 # [kg/mol]
     notes: tuple[Caveat, ...] = ()   # caveats that do not depend on composition
+    electrolytes: object = None      # PitzerMixture of all "pitzer" groups, in group order
+
+    def _ion_molalities(self, bs, T=0.0) -> np.ndarray:
+        """Ion molalities [mol/kg] of the "pitzer" groups, shape (..., n_ions), the
+        leading shape being that of the group molalities broadcast with ``T``."""
+        salt_b = [b for kind, b in zip(self.kinds, bs) if kind == "pitzer"]
+        shape = np.broadcast_shapes(np.shape(T), *(np.shape(b) for b in salt_b))
+        return self.electrolytes.ion_molalities(
+            [np.broadcast_to(np.asarray(b, dtype=float), shape) for b in salt_b])
+
+    def _electrolyte_ln_a(self, bs, T):
+        """ln a_w of all salts together by the Pitzer mixed-electrolyte equations."""
+        m = self._ion_molalities(bs, T)
+        flat = m.reshape(-1, m.shape[-1])
+        Tf = np.broadcast_to(np.asarray(T, dtype=float), m.shape[:-1]).reshape(-1)
+        return self.electrolytes.ln_water_activity(flat, Tf).reshape(m.shape[:-1])
 
     def molalities(self, comp: Composition) -> list[np.ndarray]:
         """Group molalities [mol/kg], one array of shape (N,) per group."""
@@ -136,9 +160,11 @@ class ActivityTerms:
         if self.model == "ideal":
             return -np.log1p(self.M_solvent * nu_b) + 0.0 * T
         out = 0.0 * T
+        if self.electrolytes is not None:
+            out = out + self._electrolyte_ln_a(bs, T)
         for kind, par, nu, b in zip(self.kinds, self.params, self.ions, bs):
             if kind == "pitzer":
-                out = out + par[0].ln_water_activity(par[1], b, T)
+                continue  # all salts together, in one mixed-electrolyte term above
             elif kind == "norrish":
                 out = out + nonelectrolytes.ln_water_activity(par, b)
             else:
@@ -150,9 +176,15 @@ class ActivityTerms:
         out = list(self.notes)
         if self.model != "nonideal":
             return out
+        if self.electrolytes is not None:
+            m = self._ion_molalities(bs, T)
+            out.extend(self.electrolytes.caveats(
+                m.reshape(-1, m.shape[-1]),
+                np.broadcast_to(np.asarray(T, dtype=float), m.shape[:-1]).reshape(-1)))
         for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
             if kind == "pitzer":
-                out.extend(par[0].validity(par[1], b, T))
+                if par[1] is not None:
+                    out.extend(par[0].validity(par[1], b, T))
             elif kind == "norrish":
                 out.extend(nonelectrolytes.validity(label, par, b, T))
         return out
@@ -176,9 +208,9 @@ def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
         kind, par = "raoult", None
         if model == "nonideal":
             if ing.kind == "electrolyte":
-                mod, salt = _pitzer_salt(key)
-                if salt is not None:
-                    kind, par = "pitzer", (mod, salt)
+                mod, salt, ion_key = _pitzer_salt(key)
+                if ion_key is not None:
+                    kind, par = "pitzer", (mod, salt, ion_key)
             elif key in norrish:
                 kind, par = "norrish", norrish[key]
             if kind == "raoult":
@@ -188,8 +220,10 @@ def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
                                     "unit", ing.name))
         kinds.append(kind)
         params.append(par)
+    salts = [p[2] for k, p in zip(kinds, params) if k == "pitzer"]
+    mixture = params[kinds.index("pitzer")][0].pitzer_mixture(salts) if salts else None
     return ActivityTerms(model, tuple(labels), tuple(columns), tuple(kinds), tuple(params),
-                         np.array(ions, dtype=float), comp.solvent.M, tuple(notes))
+                         np.array(ions, dtype=float), comp.solvent.M, tuple(notes), mixture)
 
 
 def solvent_activity(comp: Composition, T, model: str = "nonideal"):

@@ -1,4 +1,10 @@
-"""Pitzer ion-interaction model for aqueous solutions of one strong electrolyte.
+"""Pitzer ion-interaction model for aqueous solutions of strong electrolytes.
+
+Two levels: one salt (:func:`osmotic_coefficient`, below) and any mixture of salts
+(:func:`pitzer_mixture`, at the end of the module: every ion in the total ionic
+strength, every cation-anion pair with its binary parameters, θ and ψ mixing terms from
+``pitzer_mixing.csv`` and the unsymmetrical-mixing terms of Pitzer 1975). For one salt
+the two agree to rounding.
 
 The model gives the osmotic coefficient phi of water in a solution of a single
 salt M_nuM X_nuX at molality b and temperature T, and from it the water
@@ -455,7 +461,7 @@ def ln_water_activity(salt: PitzerSalt, b, T):
     return out[()] if out.ndim == 0 else out
 
 
-def _range_caveat(salt: PitzerSalt, quantity: str, unit: str, values: np.ndarray,
+def _range_caveat(name: str, quantity: str, unit: str, values: np.ndarray,
                   low: float | None, high: float | None, what: str) -> Caveat | None:
     v = values[np.isfinite(values)]
     if v.size == 0:
@@ -475,12 +481,12 @@ def _range_caveat(salt: PitzerSalt, quantity: str, unit: str, values: np.ndarray
             "-inf" if low is None else f"{low:g}")
         hi = "+inf" if high is None else f"{high:g}"
     if u == "°C" and lo == hi:
-        msg = (f"{salt.name}: {what} are for {lo} °C only; used unchanged at {shown:.4g} °C "
+        msg = (f"{name}: {what} are for {lo} °C only; used unchanged at {shown:.4g} °C "
                "(extrapolated)")
     else:
-        msg = (f"{salt.name}: {quantity} {shown:.4g} {u} is outside the range {lo} to {hi} {u} "
+        msg = (f"{name}: {quantity} {shown:.4g} {u} is outside the range {lo} to {hi} {u} "
                f"of {what}; the value is extrapolated")
-    return Caveat("model-range", msg, component=salt.name,
+    return Caveat("model-range", msg, component=name,
                   extra={"quantity": quantity, "value": worst, "low": low, "high": high,
                          "unit": unit, "model": what})
 
@@ -507,11 +513,11 @@ def validity(salt: PitzerSalt, b, T) -> list[Caveat]:
     b, T = np.broadcast_arrays(np.asarray(b, dtype=float), np.asarray(T, dtype=float))
     out = []
     for c in (
-        _range_caveat(salt, "temperature", "K", T.ravel(), salt.T_min, salt.T_max,
+        _range_caveat(salt.name, "temperature", "K", T.ravel(), salt.T_min, salt.T_max,
                       "its Pitzer parameters"),
-        _range_caveat(salt, "molality", "mol/kg", b.ravel(), None, salt.b_max,
+        _range_caveat(salt.name, "molality", "mol/kg", b.ravel(), None, salt.b_max,
                       "the Pitzer parameters"),
-        _range_caveat(salt, "temperature", "K", T.ravel(), APHI_CRP94_RANGE[0],
+        _range_caveat(salt.name, "temperature", "K", T.ravel(), APHI_CRP94_RANGE[0],
                       APHI_M88_RANGE[1], "the Debye-Hückel slope A_phi (held constant outside)"),
     ):
         if c is not None:
@@ -519,9 +525,543 @@ def validity(salt: PitzerSalt, b, T) -> list[Caveat]:
     return out
 
 
+# ============================================================================
+# Mixtures of electrolytes
+# ============================================================================
+
+_IONS_FILE = Path(__file__).resolve().parent.parent / "data" / "pitzer_salt_ions.csv"
+_MIXING_FILE = Path(__file__).resolve().parent.parent / "data" / "pitzer_mixing.csv"
+
+_SUPERSCRIPT = str.maketrans("0123456789+-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻")
+
+
+def ion_label(name: str, z: int) -> str:
+    """Readable label of an ion: ``ion_label("SO4", -2)`` -> ``"SO4²⁻"``."""
+    charge = ("" if abs(z) == 1 else str(abs(z))) + ("+" if z > 0 else "-")
+    return name + charge.translate(_SUPERSCRIPT)
+
+
+@dataclass(frozen=True)
+class SaltIons:
+    """The ions one formula unit of a salt gives in water (full dissociation).
+
+    Attributes
+    ----------
+    salt : key as in ``pitzer_salt_ions.csv`` (``"NaCl"``, ``"Na3C6H5O7"`` ...)
+    cation, anion : ion names (``"Na"``, ``"SO4"``, ``"citrate"`` ...)
+    z_cation, z_anion : charge numbers (z_anion < 0) [-]
+    nu_cation, nu_anion : ions per formula unit [-]
+    source : where the stoichiometry comes from
+    """
+
+    salt: str
+    cation: str
+    z_cation: int
+    nu_cation: int
+    anion: str
+    z_anion: int
+    nu_anion: int
+    source: str
+
+
+@lru_cache(maxsize=None)
+def _load_salt_ions(path: str) -> dict[str, SaltIons]:
+    out: dict[str, SaltIons] = {}
+    charges: dict[str, int] = {}
+    name = Path(path).name
+    with open(path, newline="", encoding="utf-8") as fh:
+        for i, r in enumerate(csv.DictReader(fh), start=2):
+            try:
+                row = SaltIons(r["salt"].strip(), r["cation"].strip(), int(r["z_cation"]),
+                               int(r["nu_cation"]), r["anion"].strip(), int(r["z_anion"]),
+                               int(r["nu_anion"]), r["source"].strip())
+            except (KeyError, ValueError, AttributeError) as exc:
+                raise SolutionsError(f"{name} row {i}: cannot read ({exc})") from None
+            if row.salt in out:
+                raise SolutionsError(f"{name} row {i}: salt {row.salt!r} listed twice")
+            if row.z_cation <= 0 or row.z_anion >= 0 or row.nu_cation < 1 or row.nu_anion < 1:
+                raise SolutionsError(f"{name} row {i}: {row.salt}: charges must be cation > 0 "
+                                     "> anion and stoichiometric numbers >= 1")
+            if row.nu_cation * row.z_cation + row.nu_anion * row.z_anion != 0:
+                raise SolutionsError(f"{name} row {i}: {row.salt} is not electrically neutral")
+            for ion, z in ((row.cation, row.z_cation), (row.anion, row.z_anion)):
+                if charges.setdefault(ion, z) != z:
+                    raise SolutionsError(f"{name} row {i}: ion {ion!r} has charge {z} here and "
+                                         f"{charges[ion]} elsewhere")
+            out[row.salt] = row
+    return out
+
+
+def load_salt_ions() -> dict[str, SaltIons]:
+    """Salt key -> :class:`SaltIons`, from ``solutions/data/pitzer_salt_ions.csv``.
+
+    Raises
+    ------
+    SolutionsError
+        If the file is malformed, a salt is not neutral, or one ion is given two charges.
+    """
+    return dict(_load_salt_ions(str(_IONS_FILE)))
+
+
+def ion_charges() -> dict[str, int]:
+    """Ion name -> charge number, for every ion of ``pitzer_salt_ions.csv``."""
+    out: dict[str, int] = {}
+    for s in _load_salt_ions(str(_IONS_FILE)).values():
+        out[s.cation] = s.z_cation
+        out[s.anion] = s.z_anion
+    return out
+
+
+@dataclass(frozen=True)
+class MixingParameter:
+    """A published mixing parameter θ_ij or ψ_ijk as a function of temperature.
+
+    ``ions`` are (i, j) for θ (two ions of the same sign) and (i, j, k) for ψ (i, j of
+    one sign, k of the other). ``sets`` are (label, T_min [K], T_max [K], TFunction,
+    source), one or two (``low`` below 25 °C, ``high`` from 0 or 25 °C up), blended over
+    the same window as the binary parameters (:data:`BLEND_WINDOW`) so that a mixture
+    uses, at each temperature, mixing parameters from the same model as its binaries.
+    """
+
+    kind: str
+    ions: tuple[str, ...]
+    sets: tuple[tuple[str, float, float, TFunction, str], ...]
+
+    @property
+    def T_min(self) -> float:
+        return min(s[1] for s in self.sets)
+
+    @property
+    def T_max(self) -> float:
+        return max(s[2] for s in self.sets)
+
+    @property
+    def source(self) -> str:
+        return "; ".join(dict.fromkeys(s[4] for s in self.sets))
+
+    def label(self, charges: dict[str, int]) -> str:
+        sym = "θ" if self.kind == "theta" else "ψ"
+        return f"{sym}(" + ", ".join(ion_label(i, charges[i]) for i in self.ions) + ")"
+
+    def __call__(self, T) -> np.ndarray:
+        """Value at ``T`` [K] [kg/mol for θ, kg²/mol² for ψ], shape of ``T``."""
+        T = np.asarray(T, dtype=float)
+        if len(self.sets) == 1:
+            return np.broadcast_to(self.sets[0][3](T), T.shape).astype(float)
+        low, high = self.sets[0][3](T), self.sets[1][3](T)
+        w = _blend_weight(T)
+        with np.errstate(invalid="ignore", over="ignore"):
+            mixed = (1.0 - w) * low + w * high
+        return np.where(w <= 0.0, low, np.where(w >= 1.0, high, mixed))
+
+
+def _mixing_key(kind: str, ions) -> tuple:
+    if kind == "theta":
+        return ("theta", frozenset(ions[:2]))
+    return ("psi", frozenset(ions[:2]), ions[2])
+
+
+@lru_cache(maxsize=None)
+def _load_mixing(path: str) -> dict[tuple, MixingParameter]:
+    name = Path(path).name
+    charges = ion_charges()
+    raw: dict[tuple, list] = {}
+    with open(path, newline="", encoding="utf-8") as fh:
+        for i, r in enumerate(csv.DictReader(fh), start=2):
+            kind = r["param"].strip()
+            if kind not in ("theta", "psi"):
+                raise SolutionsError(f"{name} row {i}: unknown parameter {kind!r}")
+            ions = tuple(r[f"ion_{k}"].strip() for k in (1, 2, 3) if r[f"ion_{k}"].strip())
+            if len(ions) != (2 if kind == "theta" else 3):
+                raise SolutionsError(f"{name} row {i}: {kind} takes {2 if kind == 'theta' else 3}"
+                                     f" ions, got {ions}")
+            unknown = [x for x in ions if x not in charges]
+            if unknown:
+                raise SolutionsError(f"{name} row {i}: ion(s) {unknown} are not in "
+                                     f"{_IONS_FILE.name}")
+            zi, zj = charges[ions[0]], charges[ions[1]]
+            if ions[0] == ions[1] or zi * zj <= 0 or (kind == "psi" and charges[ions[2]] * zi >= 0):
+                raise SolutionsError(f"{name} row {i}: {kind}{ions}: the first two ions must be "
+                                     "different ions of one sign (and the third of the other)")
+            form = r["form"].strip()
+            if form not in _FORM_NCOEF:
+                raise SolutionsError(f"{name} row {i}: unknown form {form!r}")
+            n = _FORM_NCOEF[form]
+            cells = [r[f"a{k}"] for k in range(1, 9)]
+            if any(x.strip() for x in cells[n:]):
+                raise SolutionsError(f"{name} row {i}: form {form!r} takes {n} coefficients, "
+                                     "more are given")
+            coeffs = tuple(_float(x, i, f"a{k + 1}") if x.strip() else 0.0
+                           for k, x in enumerate(cells[:n]))
+            entry = (r["set"].strip(), _float(r["T_min_K"], i, "T_min_K"),
+                     _float(r["T_max_K"], i, "T_max_K"), TFunction(form, coeffs),
+                     r["source"].strip())
+            key = _mixing_key(kind, ions)
+            if any(e[0] == entry[0] for e in raw.get(key, [])[1:]):
+                raise SolutionsError(f"{name} row {i}: {kind}{ions} set {entry[0]!r} given twice")
+            raw.setdefault(key, [(kind, ions)]).append(entry)
+    out = {}
+    for key, (head, *sets) in raw.items():
+        sets.sort(key=lambda s: (s[1], s[2]))
+        if len(sets) > 2:
+            raise SolutionsError(f"{name}: {head[0]}{head[1]} has more than two sets")
+        if len(sets) == 2 and not (sets[0][2] >= BLEND_WINDOW[1] and sets[1][2] >= sets[0][2]):
+            raise SolutionsError(f"{name}: {head[0]}{head[1]} sets do not fit the blend window "
+                                 f"{BLEND_WINDOW} K")
+        out[key] = MixingParameter(head[0], head[1], tuple(sets))
+    return out
+
+
+def load_mixing_parameters() -> dict[tuple, MixingParameter]:
+    """All θ and ψ of ``solutions/data/pitzer_mixing.csv``.
+
+    Keys are ``("theta", frozenset({i, j}))`` and ``("psi", frozenset({i, j}), k)``
+    (ion names as in ``pitzer_salt_ions.csv``), so the order of i and j does not matter.
+    """
+    return dict(_load_mixing(str(_MIXING_FILE)))
+
+
+# Harvie's Chebyshev approximation of Pitzer's J(x): Pitzer (1991) ch. 3, App. B,
+# eqs. B-21 to B-30, coefficients a_0 ... a_20 of Table B-1 (x <= 1: middle column;
+# x > 1: last column). Digits as transcribed in the open-source pytzer package
+# (unsymmetrical.py); checked against the defining integral (eq. B-13) in the tests.
+_J_COEF_LOW = np.array([
+    1.925154014814667, -0.060076477753119, -0.029779077456514, -0.007299499690937,
+    0.000388260636404, 0.000636874599598, 0.000036583601823, -0.000045036975204,
+    -0.000004537895710, 0.000002937706971, 0.000000396566462, -0.000000202099617,
+    -0.000000025267769, 0.000000013522610, 0.000000001229405, -0.000000000821969,
+    -0.000000000050847, 0.000000000046333, 0.000000000001943, -0.000000000002563,
+    -0.000000000010991,
+])
+_J_COEF_HIGH = np.array([
+    0.628023320520852, 0.462762985338493, 0.150044637187895, -0.028796057604906,
+    -0.036552745910311, -0.001668087945272, 0.006519840398744, 0.001130378079086,
+    -0.000887171310131, -0.000242107641309, 0.000087294451594, 0.000034682122751,
+    -0.000004583768938, -0.000003548684306, -0.000000250453880, 0.000000216991779,
+    0.000000080779570, 0.000000004558555, -0.000000006944757, -0.000000002849257,
+    0.000000000237816,
+])
+
+
+def unsymmetrical_J(x):
+    """Pitzer's function J(x) of unsymmetrical mixing and its derivative J'(x).
+
+    Parameters
+    ----------
+    x : float or array_like
+        x_ij = 6 z_i z_j A_phi sqrt(I) [-], >= 0.
+
+    Returns
+    -------
+    (J, dJ/dx) : arrays shaped like ``x`` [-]
+
+    Equation
+    --------
+    J(x) = (1/x) ∫_0^∞ (1 + q + q²/2 - e^q) y² dy, q = -(x/y) e^(-y) (Pitzer 1975,
+    eq. 45; Pitzer 1991, eq. B-13), evaluated by Harvie's Chebyshev series: for
+    x <= 1, z = 4 x^(1/5) - 2; for x > 1, z = (40/9) x^(-1/10) - 22/9; Clenshaw sums
+    b_k = z b_(k+1) - b_(k+2) + a_k, d_k = b_(k+1) + z d_(k+1) - d_(k+2); then
+    J = x/4 - 1 + (b_0 - b_2)/2 and J' = 1/4 + (dz/dx)(d_0 - d_2)/2.
+    J(0) = 0; x J'(x) -> 0 as x -> 0.
+
+    Validity
+    --------
+    All x >= 0 (the series covers 0 < x <= 1 and x > 1; error about 1e-10).
+
+    References
+    ----------
+    Pitzer, K. S. (1975) J. Solution Chem. 4, 249-265.
+    Pitzer (1991), ch. 3, App. B, Table B-1 (C. E. Harvie's method).
+    """
+    x = np.asarray(x, dtype=float)
+    J = np.zeros(x.shape)
+    Jp = np.zeros(x.shape)
+    low = (x > 0.0) & (x <= 1.0)
+    high = x > 1.0
+    for sel, coef in ((low, _J_COEF_LOW), (high, _J_COEF_HIGH)):
+        xs = x[sel]
+        if xs.size == 0:
+            continue
+        if coef is _J_COEF_LOW:
+            z, dz = 4.0 * xs**0.2 - 2.0, 0.8 * xs**-0.8
+        else:
+            z, dz = (40.0 / 9.0) * xs**-0.1 - 22.0 / 9.0, -(4.0 / 9.0) * xs**-1.1
+        b0 = b1 = b2 = d0 = d1 = d2 = np.zeros_like(xs)
+        for a in coef[::-1]:
+            b2, b1 = b1, b0
+            d2, d1 = d1, d0
+            b0 = z * b1 - b2 + a
+            d0 = b1 + z * d1 - d2
+        J[sel] = 0.25 * xs - 1.0 + 0.5 * (b0 - b2)
+        Jp[sel] = 0.25 + 0.5 * dz * (d0 - d2)
+    return (J[()], Jp[()]) if x.ndim == 0 else (J, Jp)
+
+
+def _xJp(x: np.ndarray) -> np.ndarray:
+    """x J'(x), 0 at x = 0."""
+    return np.where(x > 0.0, x * unsymmetrical_J(x)[1], 0.0)
+
+
+@dataclass(frozen=True)
+class PitzerMixture:
+    """The Pitzer model of one set of salts dissolved together, ready to evaluate.
+
+    Built by :func:`pitzer_mixture` once per recipe; :meth:`osmotic_coefficient` and
+    :meth:`ln_water_activity` are then pure vectorized functions of the ion molalities
+    and T.
+
+    Attributes
+    ----------
+    salts : the salts the mixture was built from (keys of ``pitzer_salt_ions.csv``)
+    ions : ion names; ``z`` their charge numbers
+    stoich : ions per formula unit, shape (n_salts, n_ions)
+    pairs : (cation index, anion index, PitzerSalt or None) for every cation-anion
+        pair; None = no binary parameters (B = C = 0, with a caveat in ``notes``)
+    like : (i, j, θ_ij or None, ((k, ψ_ijk), ...)) for every pair of different ions of
+        the same sign; missing θ or ψ are zero (named in ``notes``)
+    notes : caveats that do not depend on composition or temperature
+    """
+
+    salts: tuple[str, ...]
+    ions: tuple[str, ...]
+    z: np.ndarray
+    stoich: np.ndarray
+    pairs: tuple
+    like: tuple
+    notes: tuple[Caveat, ...] = ()
+
+    def labels(self) -> tuple[str, ...]:
+        return tuple(ion_label(n, int(z)) for n, z in zip(self.ions, self.z))
+
+    def ion_molalities(self, b) -> np.ndarray:
+        """Ion molalities [mol/kg], shape (N, n_ions), from salt molalities ``b``.
+
+        b : salt molalities [mol/kg], shape (N, n_salts), or a list of n_salts arrays (N,).
+        """
+        if isinstance(b, (list, tuple)):
+            b = np.stack([np.asarray(x, dtype=float) for x in b], axis=-1)
+        b = np.asarray(b, dtype=float)
+        return b @ self.stoich
+
+    def _check(self, m, T):
+        m = np.asarray(m, dtype=float)
+        if m.ndim == 1:
+            m = m[None, :]
+        if m.shape[-1] != len(self.ions):
+            raise SolutionsError(f"ion molalities have {m.shape[-1]} columns for "
+                                 f"{len(self.ions)} ions {self.ions}")
+        T = np.broadcast_to(np.asarray(T, dtype=float), m.shape[:1])
+        _check_inputs(m, T)
+        return m, T
+
+    def osmotic_coefficient(self, m, T) -> np.ndarray:
+        """Osmotic coefficient phi of water in the mixture [-], shape (N,).
+
+        Parameters
+        ----------
+        m : array_like
+            Ion molalities [mol/kg of water], shape (N, n_ions) (or (n_ions,)).
+        T : float or array_like
+            Temperature [K], scalar or shape (N,).
+
+        Equation
+        --------
+        (Σ_i m_i)(phi - 1) = 2 [ -A_phi I^(3/2)/(1 + 1.2 I^(1/2))
+            + Σ_c Σ_a m_c m_a (B^phi_ca + Z C_ca)
+            + Σ_(c<c') m_c m_c' (Φ^phi_cc' + Σ_a m_a ψ_cc'a)
+            + Σ_(a<a') m_a m_a' (Φ^phi_aa' + Σ_c m_c ψ_aa'c) ]
+        with I = ½ Σ m_i z_i², Z = Σ m_i |z_i|,
+        B^phi = β0 + β1 e^(-α1 √I) + β2 e^(-α2 √I), C = C^phi/(2 √|z_c z_a|),
+        Φ^phi_ij = θ_ij + ^Eθ_ij + I ^Eθ'_ij, and
+        ^Eθ_ij + I ^Eθ'_ij = z_i z_j/(8I) [x_ij J'(x_ij) - ½ x_ii J'(x_ii) - ½ x_jj J'(x_jj)],
+        x_ij = 6 z_i z_j A_phi √I (Pitzer 1991, ch. 3; Harvie, Møller & Weare 1984,
+        eqs. A1-A8). phi = 1 where every molality is zero.
+
+        Validity
+        --------
+        That of the binary and mixing parameters (see :meth:`caveats`). For one salt it
+        equals :func:`osmotic_coefficient` of that salt.
+
+        References
+        ----------
+        Pitzer (1991) ch. 3; Pitzer (1975) J. Solution Chem. 4, 249;
+        Harvie, Møller & Weare (1984) Geochim. Cosmochim. Acta 48, 723.
+        """
+        m, T = self._check(m, T)
+        z = self.z
+        I = 0.5 * (m @ (z * z))
+        Z = m @ np.abs(z)
+        sI = np.sqrt(I)
+        Aphi = debye_huckel_Aphi(T)
+        S = -Aphi * I * sI / (1.0 + B_PITZER * sI)
+        for c, a, salt in self.pairs:
+            if salt is None:
+                continue
+            par = pitzer_parameters(salt, T)
+            Bphi = par["beta0"] + par["beta1"] * np.exp(-salt.alpha1 * sI)
+            if salt.alpha2 > 0:
+                Bphi = Bphi + par["beta2"] * np.exp(-salt.alpha2 * sI)
+            C = par["Cphi"] / (2.0 * np.sqrt(abs(z[c] * z[a])))
+            S = S + m[:, c] * m[:, a] * (Bphi + Z * C)
+        if self.like:
+            xJp: dict[float, np.ndarray] = {}
+            safe_I = np.where(I > 0.0, I, 1.0)
+
+            def xjp(zz):
+                if zz not in xJp:
+                    xJp[zz] = _xJp(6.0 * zz * Aphi * sI)
+                return xJp[zz]
+
+            for i, j, theta, psis in self.like:
+                zi, zj = float(z[i]), float(z[j])
+                mm = m[:, i] * m[:, j]
+                inner = theta(T) if theta is not None else np.zeros_like(I)
+                for k, psi in psis:
+                    inner = inner + m[:, k] * psi(T)
+                S = S + mm * inner
+                if zi != zj:
+                    # m_i m_j / I -> 0 as I -> 0; dividing before multiplying by z z/8 and
+                    # x J' keeps the product finite down to denormal molalities
+                    S = S + np.where(I > 0.0, mm / safe_I, 0.0) * (zi * zj / 8.0) * (
+                        xjp(zi * zj) - 0.5 * xjp(zi * zi) - 0.5 * xjp(zj * zj))
+        total = m.sum(axis=1)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            phi = np.where(total > 0.0, 1.0 + 2.0 * S / np.where(total > 0, total, 1.0), 1.0)
+        return phi
+
+    def ln_water_activity(self, m, T) -> np.ndarray:
+        """ln a_w = -M_w (Σ_i m_i) phi [-], shape (N,); arguments as
+        :meth:`osmotic_coefficient`. M_w = 0.018015268 kg/mol."""
+        m, T = self._check(m, T)
+        return -M_WATER * m.sum(axis=1) * self.osmotic_coefficient(m, T)
+
+    def caveats(self, m, T) -> list[Caveat]:
+        """The fixed notes, plus a caveat for each binary or mixing parameter used
+        outside its temperature range (one per parameter, worst value)."""
+        m, T = self._check(m, T)
+        out = list(self.notes)
+        Tr = T.ravel()
+        for _c, _a, salt in self.pairs:
+            if salt is not None:
+                c = _range_caveat(salt.name, "temperature", "K", Tr, salt.T_min, salt.T_max,
+                                  "its Pitzer parameters")
+                if c is not None:
+                    out.append(c)
+        charges = dict(zip(self.ions, (int(v) for v in self.z)))
+        for _i, _j, theta, psis in self.like:
+            for p in ((theta,) if theta is not None else ()) + tuple(q for _k, q in psis):
+                c = _range_caveat(p.label(charges), "temperature", "K", Tr, p.T_min, p.T_max,
+                                  "its mixing parameter")
+                if c is not None:
+                    out.append(c)
+        return out
+
+
+def _pair_salts(salt_ions: dict[str, SaltIons], binaries: dict[str, PitzerSalt]):
+    """(cation, anion) -> PitzerSalt for every salt with both ions and binary parameters."""
+    out = {}
+    for key, s in salt_ions.items():
+        if key in binaries:
+            b = binaries[key]
+            if (b.z_M, b.z_X, b.nu_M, b.nu_X) != (s.z_cation, s.z_anion, s.nu_cation,
+                                                 s.nu_anion):
+                raise SolutionsError(f"{key}: charges or stoichiometry differ between "
+                                     f"{_IONS_FILE.name} and {_DATA_FILE.name}")
+            out.setdefault((s.cation, s.anion), b)
+    return out
+
+
+def pitzer_mixture(salts) -> PitzerMixture:
+    """The Pitzer mixture model of the salts ``salts`` dissolved together.
+
+    Parameters
+    ----------
+    salts : iterable of str
+        Salt keys of ``pitzer_salt_ions.csv`` (``"NaCl"``, ``"MgSO4"`` ...).
+
+    Returns
+    -------
+    PitzerMixture
+        Every cation of the salts meets every anion: a pair uses the binary parameters
+        of the salt made of those two ions (``pitzer_binary.csv``), whether or not that
+        salt is among ``salts`` (Na⁺-SO4²⁻ in NaCl + MgSO4 uses Na2SO4); a pair with no
+        binary parameters gets B = C = 0 and a caveat. Every pair of different ions of
+        one sign gets θ (and ψ with each ion of the other sign) from
+        ``pitzer_mixing.csv``, or zero with a caveat naming what is missing.
+
+    Raises
+    ------
+    SolutionsError
+        For a salt not in ``pitzer_salt_ions.csv``.
+    """
+    table = _load_salt_ions(str(_IONS_FILE))
+    salts = tuple(salts)
+    for s in salts:
+        if s not in table:
+            raise SolutionsError(f"no ions known for salt {s!r}; add it to {_IONS_FILE.name}")
+    ions: dict[str, int] = {}
+    for s in salts:
+        ions.setdefault(table[s].cation, table[s].z_cation)
+        ions.setdefault(table[s].anion, table[s].z_anion)
+    names = tuple(ions)
+    z = np.array([ions[n] for n in names], dtype=float)
+    idx = {n: k for k, n in enumerate(names)}
+    stoich = np.zeros((len(salts), len(names)))
+    for r, s in enumerate(salts):
+        stoich[r, idx[table[s].cation]] += table[s].nu_cation
+        stoich[r, idx[table[s].anion]] += table[s].nu_anion
+    lab = {n: ion_label(n, ions[n]) for n in names}
+    binaries = _load(str(_DATA_FILE))
+    pair_salt = _pair_salts(table, binaries)
+    mixing = _load_mixing(str(_MIXING_FILE))
+    cations = [n for n in names if ions[n] > 0]
+    anions = [n for n in names if ions[n] < 0]
+    notes: list[Caveat] = []
+    pairs, no_pair = [], []
+    for c in cations:
+        for a in anions:
+            salt = pair_salt.get((c, a))
+            pairs.append((idx[c], idx[a], salt))
+            if salt is None:
+                no_pair.append(f"{lab[c]}-{lab[a]}")
+    if no_pair:
+        notes.append(Caveat(
+            "missing-parameters",
+            f"no Pitzer parameters for ion pair{'s' if len(no_pair) > 1 else ''} "
+            + ", ".join(no_pair) + ": short-range interaction taken as zero (Debye-Hückel "
+            "term only), so the water activity is approximate",
+            ", ".join(no_pair), extra={"pairs": no_pair}))
+    like, no_theta, no_psi = [], [], []
+    for group, other in ((cations, anions), (anions, cations)):
+        for p in range(len(group)):
+            for q in range(p + 1, len(group)):
+                i, j = group[p], group[q]
+                theta = mixing.get(("theta", frozenset((i, j))))
+                if theta is None:
+                    no_theta.append(f"{lab[i]}-{lab[j]}")
+                psis = []
+                for k in other:
+                    psi = mixing.get(("psi", frozenset((i, j)), k))
+                    if psi is not None:
+                        psis.append((idx[k], psi))
+                    elif theta is not None:  # a pair without θ is reported once, whole
+                        no_psi.append(f"{lab[i]}-{lab[j]}-{lab[k]}")
+                like.append((idx[i], idx[j], theta, tuple(psis)))
+    if no_theta or no_psi:
+        parts = ([f"θ and ψ of {', '.join(no_theta)}"] if no_theta else []) + (
+            [f"ψ of {', '.join(no_psi)}"] if no_psi else [])
+        notes.append(Caveat(
+            "missing-parameters",
+            "no published mixing parameters in the data, taken as zero: " + "; ".join(parts)
+            + " (the electrostatic unsymmetrical-mixing term is still included)",
+            ", ".join(no_theta + no_psi), extra={"theta": no_theta, "psi": no_psi}))
+    return PitzerMixture(salts, names, z, stoich, tuple(pairs), tuple(like), tuple(notes))
+
+
 __all__ = [
-    "M_WATER", "PitzerSalt", "PitzerParameterSet", "TFunction", "debye_huckel_Aphi",
-    "ln_water_activity", "load_pitzer_salts", "osmotic_coefficient", "pitzer_parameters",
+    "M_WATER", "MixingParameter", "PitzerMixture", "PitzerSalt", "PitzerParameterSet",
+    "SaltIons", "TFunction", "debye_huckel_Aphi", "ion_charges", "ion_label",
+    "ln_water_activity", "load_mixing_parameters", "load_pitzer_salts", "load_salt_ions",
+    "osmotic_coefficient", "pitzer_mixture", "pitzer_parameters", "unsymmetrical_J",
     "validity",
 ]
-
