@@ -31,8 +31,8 @@ def in_basis(basis: Basis, *, m, n, m_total, m_solvent, volume, rho_pure=None, n
     m_solvent : solvent mass [kg]; volume : solution volume [m³]; rho_pure : the pure
     component's liquid density [kg/m³] (volume fraction only).
 
-    >>> round(in_basis(Basis.MASS_PER_VOLUME, m=0.009, n=0.154, m_total=1.0046,
-    ...                m_solvent=0.9955, volume=1e-3), 6)   # 9 g in 1 L: 9 g/L
+    >>> float(in_basis(Basis.MASS_PER_VOLUME, m=0.009, n=0.154, m_total=1.0046,
+    ...                  m_solvent=0.9955, volume=1e-3))   # 9 g in 1 L: 9 g/L (definition)
     9.0
     """
     m, n = np.asarray(m, dtype=float), np.asarray(n, dtype=float)

@@ -264,7 +264,7 @@ def test_library_ions_agree_with_formula_and_pitzer():
                 assert ing.ions == nu, ing.key
                 n_formula += 1
         if ing.kind == "electrolyte":
-            _, salt = _pitzer_salt(ing.solute)
+            _, salt, _ = _pitzer_salt(ing.solute)
             if salt is not None:
                 assert ing.ions == salt.nu_M + salt.nu_X, ing.key
                 n_pitzer += 1

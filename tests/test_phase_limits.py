@@ -34,8 +34,8 @@ def test_every_solute_has_a_limit_or_an_explicit_gap():
 
 def test_solubility_rows_are_readable_by_both_consumers():
     """Each row's ``ingredient`` is the dissolved-solute key that limits.py matches
-    (case-insensitive) and that targeting.py resolves through the library."""
-    from solutions.targeting import _solute_keys
+    (case-insensitive) and resolves through the library."""
+    from solutions.limits import solute_keys as _solute_keys
     keys = {k.lower() for k in _solutes()}
     for name in set(SOL.ingredient):
         assert name.lower() in keys, name

@@ -311,7 +311,7 @@ def test_every_row_has_a_source():
         assert r["source"].strip(), r
         assert r["b_max_source"].strip(), r
     memory = {r["salt"] for r in rows if "from memory" in r["source"]}
-    assert memory == {"NaC2H3O2", "KC2H3O2"}
+    assert memory == {"KC2H3O2"}
 
 
 # =============================================================== mixtures of salts

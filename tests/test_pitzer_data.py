@@ -116,8 +116,10 @@ def test_model_breaks_when_a_parameter_is_wrong(monkeypatch):
     st = s.sets[0]
     bad_set = dataclasses.replace(st, beta0=TFunction("const", (-0.0522,)))
     bad = {**good, "NH4Cl": dataclasses.replace(s, sets=(bad_set,))}
-    from solutions.activity import models
-    monkeypatch.setattr(models, "_pitzer_salts", lambda: (pitzer, bad))
+    monkeypatch.setattr(pitzer, "_load", lambda path: bad)
+    cached = getattr(pitzer.pitzer_mixture, "cache_clear", None)
+    if cached:
+        cached()
     d = MORE[MORE.solute == "Ammonium chloride"]
     with pytest.raises(AssertionError):
         within(depression("ammonium chloride", d.molality_mol_per_kg),
