@@ -297,11 +297,24 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
     return T_pure + dT, dT, caveats
 
 
+#: compositions solved per vectorized call: keeps the solver's working arrays (and so the
+#: cost per point) flat for sweeps of millions of compositions
+ROOT_CHUNK = 32_768
+
+
 def _bracketed_root(f, lo, hi, bs, N):
-    """Vectorized root of f(T, *bs) in [lo, hi]; NaN where the bracket holds no root."""
-    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,)).copy()
-    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,)).copy()
+    """Vectorized root of f(T, *bs) in [lo, hi]; NaN where the bracket holds no root.
+    Large sweeps are solved in chunks of :data:`ROOT_CHUNK` compositions."""
+    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,))
+    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,))
     args = tuple(np.broadcast_to(np.asarray(b, dtype=float), (N,)) for b in bs)
+    if N > ROOT_CHUNK:
+        out = np.empty(N)
+        for k in range(0, N, ROOT_CHUNK):
+            sl = slice(k, min(k + ROOT_CHUNK, N))
+            out[sl] = _bracketed_root(f, lo[sl], hi[sl], [a[sl] for a in args], sl.stop - k)
+        return out
+    lo, hi = lo.copy(), hi.copy()
     with np.errstate(all="ignore"):
         flo, fhi = f(lo, *args), f(hi, *args)
     ok = np.isfinite(flo) & np.isfinite(fhi) & (np.sign(flo) != np.sign(fhi))
