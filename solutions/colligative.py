@@ -391,6 +391,12 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             "solution with solutes, which cannot exist: activity-derived results are not "
             "reported", None))
     withheld = far | impossible
+    if np.all(withheld):
+        # nothing activity-derived is reported: range notes and "not reported" messages from
+        # the freezing and boiling searches would only repeat the reason, less clearly
+        caveats = [c for c in caveats if c.kind not in ("model-range", "volatile-solute",
+                                                        "ideal-fallback", "ice", "boiling")
+                   or c.about in ("density", "recipe")]
     if np.any(withheld):
         caveats.extend(cav)
         ln_a = np.where(withheld, np.nan, ln_a)

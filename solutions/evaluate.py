@@ -77,6 +77,8 @@ class Evaluation:
         cannot be computed (a caveat says why) or does not apply (water only)."""
         if prop.water_only and not self.composition.solvent.is_water:
             return None
+        if dilute and self.value(prop) is None:
+            return None  # no textbook figure beside a value withheld for want of data
         src = (self.dilute if dilute else self.props) if prop.source == "props" else self
         x = getattr(src, prop.field)
         if x is None:
@@ -177,6 +179,8 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None, *,
     comp = res.composition
     osm = (float(np.asarray(props.osmolality).reshape(-1)[0]) if props is not None
            else float("nan"))
+    if not math.isfinite(osm):  # withheld: the ideal particle count still says how strong
+        osm = float(comp.particle_molality()[0])
     # tonicity matters for things that meet the body: osmolalities near physiological
     # (hypotonic to strongly hypertonic); a coolant or syrup at thousands of mOsm/kg is no
     # injectable, and the caution would only be noise there
