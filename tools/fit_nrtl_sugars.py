@@ -11,8 +11,9 @@ Data, each from a sourced table under solutions/data/tables/:
   activity equals that of ice, ln a_w(x, T_f) = ln a_ice(T_f) (``ice_water_activity``, on the
   same triple-point scale as ``tools/fit_activity.py`` and ``colligative.freezing_point``).
 * sucrose only — water activity from the Starzak & Peacock (1997) correlation of 1197 published
-  points (``sucrose_water_activity_correlation.csv``) on a grid 0–80 % w/w at 0, 25, 50, 75 and
-  100 °C (70 % w/w at 0 °C, where the correlation's data are supersaturated beyond that).
+  points, mostly boiling-point elevations (``sucrose_water_activity_correlation.csv``), on a grid
+  5–80 % w/w at 25, 50, 75 and 100 °C, 5–70 % at 0 °C and 5–85 % at 120 °C
+  (``SUCROSE_GRID``).
 
 Every third point of each table (indices 1, 4, 7, …) is held out of the fit; the script prints
 the fit and held-out errors beside those of the Norrish-form coefficients already in
@@ -67,6 +68,10 @@ CRC = {
 }
 M_SUCROSE = 0.34229648  # [kg/mol] C12H22O11, IUPAC 2013 standard atomic weights
 ALPHA_DEFAULT = 0.3
+# (T [°C], highest w) of the sucrose correlation grid, every 5 % w/w from 5 %: supersaturated
+# beyond about 67 % at 25 °C; 120 °C and 85 % is the boiling curve of a confectioners' syrup
+SUCROSE_GRID = ((0.0, 0.70), (25.0, 0.80), (50.0, 0.80), (75.0, 0.80), (100.0, 0.80),
+                (120.0, 0.85))
 ALPHAS_OTHER = (0.2, 0.47, -0.3, -0.5, -1.0)   # tried only when 0.3 misses half the allowance
 SIGMA_AW = 0.001         # weight of a correlation a_w point [1]
 
@@ -103,7 +108,7 @@ def _bisect_T(f, n, lo=200.0, hi=T_TRIPLE, iters=60):
 
 
 def freezing_dT(ln_aw):
-    """Freezing-point depression [K] for each ln a_w: ln a_ice(T_f) = ln a_w, ΔT = T_triple − T_f."""
+    """Freezing-point depression [K] for each ln a_w: ln a_ice(T_f) = ln a_w, ΔT = T_tp − T_f."""
     ln_aw = np.atleast_1d(np.asarray(ln_aw, dtype=float))
     return T_TRIPLE - _bisect_T(lambda T: np.log(ice_water_activity(T)) - ln_aw, ln_aw.size)
 
@@ -129,7 +134,7 @@ def load_sets():
         frz["hold"] = np.arange(len(frz)) % 3 == 1
         sets[key] = {"frz": frz, "aw": None}
     rows = []
-    for T_C, wmax in ((0.0, 0.70), (25.0, 0.80), (50.0, 0.80), (75.0, 0.80), (100.0, 0.80)):
+    for T_C, wmax in SUCROSE_GRID:
         w = np.round(np.arange(0.05, wmax + 1e-9, 0.05), 2)
         x2 = (w / M_SUCROSE) / (w / M_SUCROSE + (1 - w) / M_WATER)
         T = T_C + 273.15
@@ -236,8 +241,9 @@ def report(key, frz, aw):
     def line(mask, label):
         f = frz[mask]
         allow = np.maximum(0.15, 0.03 * f.dT)
-        s = (f"  {label:9s} n={len(f):2d} freezing max|err| NRTL {np.abs(f.dT_nrtl - f.dT).max():.3f} K"
-             f" (worst/allowance {np.max(np.abs(f.dT_nrtl - f.dT) / allow):.2f})")
+        err = np.abs(f.dT_nrtl - f.dT)
+        s = (f"  {label:9s} n={len(f):2d} freezing max|err| NRTL {err.max():.3f} K"
+             f" (worst/allowance {np.max(err / allow):.2f})")
         if "dT_norrish" in f:
             s += f"; Norrish {np.abs(f.dT_norrish - f.dT).max():.3f} K"
         return s
@@ -246,12 +252,14 @@ def report(key, frz, aw):
     if aw is not None:
         for held, label in ((False, "fit"), (True, "held-out")):
             a = aw[aw.hold == held]
-            s = f"  {label:9s} n={len(a):2d} a_w max|err| NRTL {np.abs(a.aw_nrtl - a.a_w).max():.4f}"
+            err = np.abs(a.aw_nrtl - a.a_w).max()
+            s = f"  {label:9s} n={len(a):2d} a_w max|err| NRTL {err:.4f}"
             if "aw_norrish" in a:
                 s += f"; Norrish {np.abs(a.aw_norrish - a.a_w).max():.4f}"
             print(s)
         a25 = aw[(np.abs(aw["T"] - 298.15) < 1e-6) & (aw.w <= 0.65 + 1e-9)]
-        print(f"  25 °C to 65 % w/w: a_w max|err| NRTL {np.abs(a25.aw_nrtl - a25.a_w).max():.4f}, "
+        print(f"  25 °C to 65 % w/w: a_w max|err| NRTL "
+              f"{np.abs(a25.aw_nrtl - a25.a_w).max():.4f}, "
               f"Norrish {np.abs(a25.aw_norrish - a25.a_w).max():.4f}")
 
 
@@ -275,14 +283,14 @@ def main() -> None:
             continue
         if aw is not None:
             data_txt = (f"freezing points {frz.w.min() * 100:.1f}-{frz.w.max() * 100:.0f} % w/w "
-                        f"({T_min:.2f}-{frz['T'].max():.2f} K); water activity from the correlation "
-                        f"5-{aw.w.max() * 100:.0f} % w/w at 273.15-373.15 K; every third point "
-                        "held out")
+                        f"({T_min:.2f}-{frz['T'].max():.2f} K); water activity from the "
+                        f"correlation 5-{aw.w.max() * 100:.0f} % w/w at 273.15-"
+                        f"{aw['T'].max():.2f} K; every third point held out")
             src = CRC_SOURCE + "; " + SP_SOURCE + "; NRTL fit by tools/fit_nrtl_sugars.py"
         else:
-            data_txt = (f"freezing points only, {frz.w.min() * 100:.1f}-{frz.w.max() * 100:.0f} % w/w "
-                        f"({T_min:.2f}-{T_max:.2f} K); temperature dependence not fitted (b = 0); "
-                        "every third point held out")
+            data_txt = (f"freezing points only, {frz.w.min() * 100:.1f}-"
+                        f"{frz.w.max() * 100:.0f} % w/w ({T_min:.2f}-{T_max:.2f} K); temperature "
+                        "dependence not fitted (b = 0); every third point held out")
             src = CRC_SOURCE + "; NRTL fit by tools/fit_nrtl_sugars.py"
         rows.append(dict(solute=key, a12=round(p[0], 6), b12_K=round(p[1], 3), a21=round(p[2], 6),
                          b21_K=round(p[3], 3), alpha=alpha, x2_max=round(x2_max, 5),
