@@ -41,6 +41,7 @@ class Evaluation:
     dilute: ColligativeResult
     warnings: list[Caveat] = field(default_factory=list)
     cautions: list[tuple[str, str]] = field(default_factory=list)  # (tag, message)
+    use: str | None = None   # "technical": never meets the body (no tonicity caution)
 
     @property
     def composition(self):
@@ -102,7 +103,8 @@ class Evaluation:
                      "date": _dt.date.today().isoformat()},
             "recipe_name": r.recipe.name,
             "conditions": {"temperature_C": self.T - 273.15, "pressure_kPa": self.P / 1e3,
-                           "model": self.model, "volumes_read_at_C": r.T_prep - 273.15},
+                           "model": self.model, "volumes_read_at_C": r.T_prep - 273.15,
+                           "use": self.use},
             "components": self.components(),
             "solution": self.solution(),
             "recipe": recipe_rows(r.recipe),
@@ -204,10 +206,13 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None) -> list[tupl
 
 def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P_ATM,
              model: str = "nonideal", rho_measured: float | None = None,
-             batch: tuple[str, float] | None = None, T_prep: float = T_PREP) -> Evaluation:
+             batch: tuple[str, float] | None = None, T_prep: float = T_PREP,
+             use: str | None = None) -> Evaluation:
     """Resolve (if needed) and evaluate a recipe at ``T`` [K] and ``P`` [Pa].
 
     rho_measured : measured solution density [kg/m³], used for volumes at T_prep and T.
+    use : ``"technical"`` for a product that never meets the body: the tonicity caution
+        is left out. Any other value (or none) keeps every caution.
     """
     res = recipe if isinstance(recipe, ResolvedRecipe) else resolve(
         recipe, batch=batch, T_prep=T_prep, rho_measured=rho_measured)
@@ -222,5 +227,7 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
                               *(c.tagged("recipe") for c in solubility_caveats(comp))])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,
                     warnings)
-    ev.cautions = cautions_for(ev)
+    ev.cautions = [c for c in cautions_for(ev)
+                   if not (use == "technical" and c[0] == "tonicity")]
+    ev.use = use
     return ev
