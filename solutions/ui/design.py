@@ -26,7 +26,7 @@ from ..report import fmt, json_text, property_text, safe_cell
 from ..targeting import (PROPERTIES, Target, component_concentration, find_row, parse_quantity,
                          solve_target)
 from .compute import Conditions, TableRead
-from .tables import EDITOR_COLUMNS, clean_table, sort_cautions
+from .tables import EDITOR_COLUMNS, activity_label, clean_table, sort_cautions
 
 __all__ = ["TargetChoice", "TARGET_CHOICES", "CONCENTRATION_UNITS", "ADD_INGREDIENT",
            "TargetRequest", "TargetOutcome", "vary_options", "addable_ingredients",
@@ -87,10 +87,13 @@ TARGET_CHOICES: dict[str, TargetChoice] = {c[0]: TargetChoice(*c[1:]) for c in (
 )}
 
 
-def choice_label(key: str, cond: Conditions) -> str:
-    """The property box's text for choice ``key`` under the sidebar's conditions."""
+def choice_label(key: str, cond: Conditions, solution: dict | None = None) -> str:
+    """The property box's text for choice ``key`` under the sidebar's conditions (the
+    solvent's activity named after the page's ``solution`` solvent)."""
     c = TARGET_CHOICES[key]
     text = c.label.format(P=cond.P_kPa, T=cond.T_C)
+    if c.quantity == "water_activity" and solution is not None:
+        text = activity_label(solution)
     return f"{text} ({c.unit})" if c.unit else text
 
 
@@ -215,6 +218,7 @@ class TargetOutcome:
 def _solve_kwargs(cond: Conditions) -> dict:
     kw = cond.evaluate_kwargs()
     kw.pop("batch")   # a target is solved on the recipe as written; scale it afterwards
+    kw.pop("use", None)   # the design tools take no product use; design_cautions applies it
     return kw
 
 
@@ -398,13 +402,15 @@ def e_value_frame(d: dict) -> pd.DataFrame | None:
                          for i in e["ingredients"]])
 
 
-def design_cautions(d: dict, shown: dict | None = None, *, ingredients: bool = True
-                    ) -> list[str]:
+def design_cautions(d: dict, shown: dict | None = None, *, ingredients: bool = True,
+                    use: str | None = None) -> list[str]:
     """The cautions of a design result to show beside it: tonicity and freeze protection,
     and (``ingredients``) ingredient cautions the page does not show already (``shown``:
-    the page's :func:`~solutions.ui.tables.sort_cautions`)."""
+    the page's :func:`~solutions.ui.tables.sort_cautions`). With ``use="technical"`` the
+    tonicity caution is left out, as :func:`solutions.evaluate.evaluate` does."""
     groups = sort_cautions(d)
-    out = list(groups["results"])
+    tonicity = {c["message"] for c in d.get("cautions_detail", []) if c["tag"] == "tonicity"}
+    out = [c for c in groups["results"] if not (use == "technical" and c in tonicity)]
     if ingredients:
         have = set((shown or {}).get("ingredients", []))
         out += [c for c in groups["ingredients"] if c not in have]
