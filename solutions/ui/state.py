@@ -179,7 +179,7 @@ def session_ingredients(state: MutableMapping) -> list[Ingredient]:
 
 def table_or_blank(state: MutableMapping) -> pd.DataFrame:
     t = state.get("recipe_table")
-    return t if isinstance(t, pd.DataFrame) else blank_table()
+    return clean_table(t) if isinstance(t, pd.DataFrame) else blank_table()
 
 
 __all__ += ["session_ingredients", "table_or_blank", "DEMO_DIR", "FIRST_DEMO"]

@@ -62,7 +62,8 @@ def clean_table(df: pd.DataFrame) -> pd.DataFrame:
     out = pd.DataFrame(index=range(len(df)))
     src = df.reset_index(drop=True)
     for c in EDITOR_COLUMNS:
-        out[c] = [_text(v) for v in src[c]] if c in src.columns else ""
+        out[c] = pd.Series([_text(v) for v in src[c]] if c in src.columns
+                           else [""] * len(src), index=out.index, dtype=object)
     return out
 
 
@@ -83,6 +84,7 @@ def _to_editor(df: pd.DataFrame) -> tuple[pd.DataFrame, list[str]]:
     out = clean_table(df.loc[:, list(rename)].rename(columns=rename))
     if len(out) == 0:
         notes.append("the block has a header line but no ingredient rows")
+        out = blank_table()
     return out, notes
 
 
