@@ -215,7 +215,7 @@ def page_key(state: MutableMapping, table: pd.DataFrame) -> PageKey:
 #: widgets whose value must outlive runs that do not draw them (a run that stops at
 #: "No results" does not draw the design section; Streamlit forgets the value of a widget
 #: it did not draw, so writing the key back at the top of each run keeps it)
-KEPT_WIDGETS = ("tg_vary", "tg_add", "tg_property", "tg_component", "tg_basis", "wo_size",
+KEPT_WIDGETS = ("design_tool", "tg_vary", "tg_add", "tg_property", "tg_component", "tg_basis", "wo_size",
                 "wo_unit", "dl_ingredient", "dl_to_value", "dl_to_unit", "dl_final_value",
                 "dl_final_unit", "batch_size", "batch_unit", "rho_measured",
                 *(f"tg_value_{k}" for k in TARGET_CHOICES))
