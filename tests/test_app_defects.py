@@ -207,3 +207,20 @@ def test_page_key_is_hashable_and_round_trips_the_table():
         state["recipe_table"][["ingredient", "amount", "unit"]].values.tolist()
     state["T_C"] = 30.0
     assert S.page_key(state, state["recipe_table"]) != key
+
+
+# ------------------------------------------------------------------ exports
+def test_csv_export_has_no_float_noise_and_no_none():
+    import csv
+    import io
+
+    from solutions.report import summary_csv
+    d = saline_dict()
+    d["components"][0]["mass_g"] = 9.000000000000004
+    d["components"][0]["ions"] = None
+    d["recipe"] = [{"ingredient": "sodium chloride", "amount": 0.1 + 0.2, "unit": "g"}]
+    rows = list(csv.reader(io.StringIO(summary_csv(d))))
+    cells = [c for r in rows for c in r]
+    assert "9" in cells and "9.000000000000004" not in cells
+    assert "0.3" in cells and "0.30000000000000004" not in cells
+    assert "None" not in cells and "nan" not in cells

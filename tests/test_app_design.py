@@ -236,11 +236,15 @@ def test_weigh_out_csv_holds_the_library_numbers():
     d = sheet.to_dict()
     rows = list(csv.DictReader(io.StringIO(D.weigh_out_csv(d))))
     body = rows[:len(d["weigh_out"])]
-    assert [float(r["weigh_g"]) for r in body] == [r["weigh_g"] for r in d["weigh_out"]]
-    assert float(body[-1]["volume_mL"]) == d["weigh_out"][-1]["volume_mL"]
+    assert [float(r["weigh_g"]) for r in body] == \
+        pytest.approx([r["weigh_g"] for r in d["weigh_out"]], rel=1e-9)
+    assert float(body[-1]["volume_mL"]) == pytest.approx(d["weigh_out"][-1]["volume_mL"],
+                                                         rel=1e-9)
+    # rounded to significant figures: no binary noise such as 9.000000000000004
+    assert all(len(re.sub(r"[^0-9]", "", r["weigh_g"]).lstrip("0")) <= 12 for r in body)
     final = rows[len(d["weigh_out"])]
     assert final["item"] == "final solution (expected)"
-    assert float(final["volume_mL"]) == d["final"]["volume_mL"]
+    assert float(final["volume_mL"]) == pytest.approx(d["final"]["volume_mL"], rel=1e-9)
     assert [r["note"] for r in rows if r["item"] == "caution"] == d["cautions"]
 
 

@@ -22,7 +22,7 @@ from ..batch import dilution_plan, weigh_out
 from ..errors import SolutionsError, TargetError
 from ..ingredients import Library
 from ..recipe import Recipe, parse_batch, resolve
-from ..report import fmt, json_text, property_text, safe_cell
+from ..report import csv_value, fmt, json_text, property_text, safe_cell
 from ..targeting import (PROPERTIES, Target, component_concentration, find_row, parse_quantity,
                          solve_target)
 from .compute import Conditions, TableRead
@@ -462,7 +462,7 @@ def weigh_out_frame(d: dict) -> pd.DataFrame:
                      "Weigh (g)": fmt(r["weigh_g"], SIG),
                      "Volume (mL)": "" if vol is None else fmt(vol, SIG) + at,
                      "Assay (%)": "" if assay is None or assay == 100.0 else fmt(assay, 4),
-                     "Note": r["note"]})
+                     "Note": r.get("note") or ""})
     df = pd.DataFrame(rows)
     for col in ("Assay (%)", "Note"):
         if not df[col].any():
@@ -476,17 +476,18 @@ def weigh_out_csv(d: dict) -> str:
     f = d["final"]
     out = io.StringIO()
     w = csv.writer(out, lineterminator="\n")
-    row = lambda *r: w.writerow([safe_cell(x) for x in r])  # noqa: E731
+    row = lambda *r: w.writerow([csv_value(x) if isinstance(x, float) else safe_cell(csv_value(x))
+                                 for x in r])  # noqa: E731
     row("item", "as_written", "weigh_g", "volume_mL", "volume_at_C", "note")
     for r in d["weigh_out"]:
         vol = _volume(r)
-        row(r["ingredient"], _as_written(r), repr(r["weigh_g"]),
-            "" if vol is None else repr(vol),
+        row(r["ingredient"], _as_written(r), float(r["weigh_g"]),
+            None if vol is None else float(vol),
             "" if vol is None else (f"{f['volume_temperature_C']:g}" if r.get("solvent")
                                     else "20"), r["note"])
-    row("final solution (expected)", "", repr(f["mass_g"]), repr(f["volume_mL"]),
-        f"{f['volume_temperature_C']:g}", f"density {f['density_g_per_mL']!r} g/mL at "
-        f"{f['volume_temperature_C']:g} °C; {f['volume_mL_at_T']!r} mL at "
+    row("final solution (expected)", "", float(f["mass_g"]), float(f["volume_mL"]),
+        f"{f['volume_temperature_C']:g}", f"density {csv_value(f['density_g_per_mL'])} g/mL "
+        f"at {f['volume_temperature_C']:g} °C; {csv_value(f['volume_mL_at_T'])} mL at "
         f"{f['temperature_C']:g} °C")
     for m in d["warnings"]:
         row("warning", "", "", "", "", m)
