@@ -224,3 +224,22 @@ def test_csv_export_has_no_float_noise_and_no_none():
     assert "9" in cells and "9.000000000000004" not in cells
     assert "0.3" in cells and "0.30000000000000004" not in cells
     assert "None" not in cells and "nan" not in cells
+
+
+# ------------------------------------------------------------------ chart specifications
+def test_cached_chart_specifications_equal_altairs_own_conversion():
+    """The page's specification (structure built and schema-checked once, data added)
+    is exactly what Altair's validated ``to_dict`` gives for the same chart."""
+    from solutions.charts import chart_spec
+    from solutions.ui.compute import chart_curves, page_charts
+    page = evaluate_table(pd.read_csv(RECIPES / "chiller_coolant.csv", dtype=str),
+                          default_library(), Conditions())
+    curves = chart_curves(page.evaluation, page.d)
+    for name, chart in page_charts(page, curves).items():
+        assert chart_spec(chart) == chart.to_dict(validate=True), name
+    # a second recipe with the same structure reuses it but carries its own data
+    page2 = evaluate_table(pd.read_csv(RECIPES / "brine_bath.csv", dtype=str),
+                           default_library(), Conditions())
+    c1 = page_charts(page, curves)["vapor"]
+    c2 = page_charts(page2, chart_curves(page2.evaluation, page2.d))["vapor"]
+    assert chart_spec(c1)["datasets"] != chart_spec(c2)["datasets"]

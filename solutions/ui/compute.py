@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 
 import pandas as pd
 
-from ..charts import (Curve, clausius_clapeyron_chart, concentration_chart,
+from ..charts import (Curve, chart_spec, clausius_clapeyron_chart, concentration_chart,
                       concentration_curve, vapor_pressure_chart, vapor_pressure_curve,
                       vapor_pressure_range)
 from ..errors import RecipeError, SolutionsError
@@ -274,10 +274,25 @@ def page_charts(page: PageResult, curves: dict, width: int | None = None) -> dic
     return out
 
 
+def chart_specs(page: PageResult, curves: dict) -> dict[str, dict]:
+    """The page's charts as Vega-Lite specifications (plain dicts, data inline), for
+    ``st.vega_lite_chart``: built once per page update and cached with it, so a rerun
+    does not convert the Altair charts again (:func:`solutions.charts.chart_spec`:
+    each chart structure is built and schema-checked once per process)."""
+    out = {}
+    for k, chart in page_charts(page, curves).items():
+        spec = chart_spec(chart)
+        view = spec.get("config", {}).get("view", {})
+        for dflt in ("continuousWidth", "continuousHeight"):   # Altair's theme, not ours
+            view.pop(dflt, None)
+        out[k] = spec
+    return out
+
+
 def report_charts(page: PageResult, curves: dict, width: int = 460) -> dict:
     """The charts keyed by caption, for :func:`solutions.report.html_report`."""
     return {CAPTIONS[k]: c for k, c in page_charts(page, curves, width).items()}
 
 
-__all__ += ["boiling_marks", "below_freezing", "EDITOR_COLUMNS", "report_dict", "CAPTIONS", "page_charts",
+__all__ += ["chart_specs", "boiling_marks", "below_freezing", "EDITOR_COLUMNS", "report_dict", "CAPTIONS", "page_charts",
             "report_charts"]

@@ -24,8 +24,8 @@ from ..charts import Curve
 from ..report import html_report, json_text, property_text, summary_csv
 from . import design as D
 from . import state as S
-from .compute import (CAPTIONS, PageResult, below_freezing, chart_curves, evaluate_table,
-                      page_charts, report_charts, report_dict)
+from .compute import (CAPTIONS, PageResult, below_freezing, chart_curves, chart_specs,
+                      evaluate_table, report_charts, report_dict)
 from .safe import MAX_CELL_CHARS, MAX_ROWS, max_upload_bytes, plain, plain_frame
 from .tables import (BASES, COLUMN_HELP, EDITOR_COLUMNS, composition_frame, headline,
                      property_frame, solvent_words, sort_cautions)
@@ -74,8 +74,8 @@ def curves_for(key: S.PageKey) -> dict:
 
 @st.cache_resource(show_spinner=False, max_entries=128)
 def charts_for(key: S.PageKey) -> dict:
-    """The page's Altair charts, built once per page key."""
-    return page_charts(page_for(key), curves_for(key))
+    """The page's charts as Vega-Lite specifications, built once per page key."""
+    return chart_specs(page_for(key), curves_for(key))
 
 
 @st.cache_data(show_spinner=False, max_entries=16)
@@ -273,12 +273,12 @@ def render_charts(key: S.PageKey, page: PageResult) -> None:
         if isinstance(curves.get(name), str):
             st.error(f"Chart not drawn: {plain(curves[name])}", icon=":material/error:")
     if "concentration" in charts:
-        st.altair_chart(charts["concentration"], theme=None, key="chart_concentration")
+        st.vega_lite_chart(charts["concentration"], theme=None, key="chart_concentration")
         st.caption(CAPTIONS["concentration"] + ".")
         _notes("Model notes along these curves", curves["concentration"])
     if "vapor" in charts:
         cb, cc = st.columns(2, gap="large")
-        cb.altair_chart(charts["vapor"], theme=None, key="chart_vapor")
+        cb.vega_lite_chart(charts["vapor"], theme=None, key="chart_vapor")
         over_solid = (f" over {solvent_words(s)['solid']}, the stable phase at this "
                       "temperature (the curve is the supercooled liquid's); the liquid's is"
                       if below_freezing(s) else ",")
@@ -286,7 +286,7 @@ def render_charts(key: S.PageKey, page: PageResult) -> None:
                    f"pressure is {property_text(s, 'vapor_pressure_kPa')} kPa{over_solid} "
                    f"{property_text(s, 'vapor_pressure_lowering_kPa')} kPa below the pure "
                    "solvent's.")
-        cc.altair_chart(charts["clausius"], theme=None, key="chart_cc")
+        cc.vega_lite_chart(charts["clausius"], theme=None, key="chart_cc")
         cc.caption(CAPTIONS["clausius"] + ".")
         for c in sort_cautions(d)["vessels"]:
             st.warning(plain(c), icon=":material/warning:")
