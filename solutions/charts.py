@@ -21,6 +21,7 @@ Charts:
 """
 from __future__ import annotations
 
+import copy
 import functools
 import json
 from dataclasses import dataclass, field
@@ -34,7 +35,7 @@ from .composition import Composition
 
 __all__ = ["Curve", "FACTORS", "concentration_curve", "vapor_pressure_curve",
            "vapor_pressure_range", "solution_vapor_pressure", "concentration_chart",
-           "vapor_pressure_chart", "clausius_clapeyron_chart", "chart_spec", "COLORS"]
+           "vapor_pressure_chart", "clausius_clapeyron_chart", "chart_spec", "DataChart", "COLORS"]
 
 #: concentration factors of chart (a): 0 (pure solvent) to 2× the recipe's solutes
 FACTORS = np.linspace(0.0, 2.0, 41)
@@ -165,12 +166,37 @@ def _structure(kind: str, key: tuple) -> alt.TopLevelMixin:
     return _BUILD[kind](*key)
 
 
-def _chart(kind: str, key: tuple, frames: list[pd.DataFrame]):
-    """The structure of ``kind``/``key`` (a copy) carrying ``frames`` as its datasets."""
-    chart = _structure(kind, key).copy(deep=False)
-    chart.datasets = {f"set_{i}": _records(f) for i, f in enumerate(frames)}
-    object.__setattr__(chart, "_structure_key", (kind, key))   # not part of the spec
-    return chart
+@dataclass(frozen=True)
+class DataChart:
+    """A chart of this module: a shared structure (an Altair chart without data, built
+    once per structure) and this chart's datasets. ``to_dict``/``to_json`` give the
+    Vega-Lite specification as Altair would, data inline."""
+
+    kind: str
+    key: tuple
+    datasets: dict
+
+    @property
+    def structure(self):
+        """The Altair chart without data (shared: do not change it)."""
+        return _structure(self.kind, self.key)
+
+    def to_dict(self, validate: bool = True) -> dict:
+        """The Vega-Lite specification (a new dict). The structure is converted and
+        checked against the schema once and kept; ``validate`` is accepted for Altair's
+        signature (the check has been made)."""
+        spec = copy.deepcopy(_structure_spec(self.kind, self.key))
+        spec["datasets"] = {**spec.get("datasets", {}), **self.datasets}
+        return spec
+
+    def to_json(self, **kwargs) -> str:
+        kwargs.pop("validate", None)
+        return json.dumps(self.to_dict(), **kwargs)
+
+
+def _chart(kind: str, key: tuple, frames: list[pd.DataFrame]) -> DataChart:
+    """The structure of ``kind``/``key`` with ``frames`` as its datasets."""
+    return DataChart(kind, key, {f"set_{i}": _records(f) for i, f in enumerate(frames)})
 
 
 @functools.lru_cache(maxsize=64)
@@ -180,17 +206,9 @@ def _structure_spec(kind: str, key: tuple) -> dict:
 
 
 def chart_spec(chart) -> dict:
-    """A chart of this module as a Vega-Lite specification (a new dict, data inline).
-
-    The structure's specification is converted and checked against the Vega-Lite schema
-    once per structure and kept; this chart's datasets are added to a copy of it."""
-    import copy
-    sk = getattr(chart, "_structure_key", None)
-    if sk is None:
-        return chart.to_dict()
-    spec = copy.deepcopy(_structure_spec(*sk))
-    spec["datasets"] = {**spec.get("datasets", {}), **chart.datasets}
-    return spec
+    """A chart's Vega-Lite specification (a new dict, data inline): for a
+    :class:`DataChart` its cached structure plus its data, else Altair's ``to_dict``."""
+    return chart.to_dict()
 
 
 def _width(width):
@@ -237,7 +255,7 @@ def _concentration_structure(models: tuple, marked: tuple, P_kPa: float, width, 
 
 def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float | None,
                         P_kPa: float = 101.325, width: int | None = 300,
-                        height: int = 260) -> alt.HConcatChart:
+                        height: int = 260) -> DataChart:
     """Chart (a): freezing point and boiling point against the concentration factor.
 
     freezing_C, boiling_C : the recipe's own values [°C], marked at factor 1.
@@ -308,7 +326,7 @@ def _vapor_structure(series: tuple, has_boiling: bool, has_here: bool, width, he
 
 def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] | None = None,
                          at_T: tuple[float, float] | None = None, at_note: str = "",
-                         width: int | None = None, height: int = 300) -> alt.LayerChart:
+                         width: int | None = None, height: int = 300) -> DataChart:
     """Chart (b): vapor pressure against temperature, external pressure as a rule.
 
     P_kPa : external pressure [kPa]
@@ -354,7 +372,7 @@ def _clausius_structure(series: tuple, has_boiling: bool, width, height):
 
 def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
                              boiling: dict[str, float] | None = None,
-                             width: int | None = None, height: int = 300) -> alt.LayerChart:
+                             width: int | None = None, height: int = 300) -> DataChart:
     """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
     df = curve.data
     frames = [df, pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
