@@ -215,7 +215,7 @@ def test_pasted_names_are_shown_as_typed_never_fetched(app_page):
     assert not page.locator("[data-testid=stException]").count()
     assert page.locator("img[src*='127.0.0.1:1']").count() == 0
     assert page.locator("a[href*='127.0.0.1:1']").count() == 0
-    body = page.locator("[data-testid=stMain]").inner_text()
+    body = page.locator("[data-testid=stMain]").inner_text().replace("\u2060", "")
     assert IMG in body and TAG in body
     page.wait_for_timeout(500)
     assert asked == []

@@ -81,6 +81,8 @@ def check_table_limits(df: pd.DataFrame, what: str = "the recipe table") -> None
 #: ASCII punctuation that starts Markdown, HTML, Streamlit directives (:red[…],
 #: :material/…:), LaTeX ($) or a GFM table/strikethrough; escaped anywhere
 _ALWAYS = set("\\`*_[]<>!$~|:&{}#@")
+#: WORD JOINER: invisible, and breaks a bare link or e-mail address
+WJ = "\u2060"
 _LINE_START = re.compile(r"^(\s*)([-+=]|\d+[.)])(?=\s|$|[-+=])", re.MULTILINE)
 
 
@@ -89,12 +91,14 @@ def plain(text) -> str:
     HTML tag, emphasis, heading, list, directive or formula; ``None`` → ``""``.
 
     Backslash-escapes (CommonMark §2.4) the punctuation that opens any of these, a list
-    or heading marker at a line start, and the dot of ``www.`` (GFM's bare-link rule).
-    Letters, digits, ``.``, ``-``, ``%``, ``/`` and ``°`` inside a line are left alone, so
-    numbers and units read back unchanged.
+    or heading marker at a line start. GitHub-flavoured Markdown also turns bare
+    ``http://``, ``www.`` and e-mail addresses into links after escapes are resolved, so
+    an invisible word joiner (U+2060) goes after ``http``/``www`` and ``@``. Letters,
+    digits, ``.``, ``-``, ``%``, ``/`` and ``°`` inside a line are left alone, so numbers
+    and units read back unchanged.
 
-    >>> plain("![x](http://127.0.0.1:1/b.png)")
-    '\\\\!\\\\[x\\\\](http\\\\://127.0.0.1\\\\:1/b.png)'
+    >>> plain("![x](http://127.0.0.1:1/b.png)").replace(WJ, "+")
+    '\\\\!\\\\[x\\\\](http+\\\\://127.0.0.1\\\\:1/b.png)'
     >>> plain("0.9 % w/v sodium chloride")
     '0.9 % w/v sodium chloride'
     """
@@ -102,7 +106,11 @@ def plain(text) -> str:
         return ""
     s = "".join("\\" + ch if ch in _ALWAYS else ch for ch in str(text))
     s = _LINE_START.sub(lambda m: m.group(1) + re.sub(r"([-+=.)])", r"\\\1", m.group(2)), s)
-    s = re.sub(r"(?i)\b(www)\.", r"\1\\.", s)
+    # GitHub-flavoured bare links are found in the text after escapes are resolved, so
+    # an escape does not stop them: a word joiner (invisible) breaks the pattern
+    s = re.sub(r"(?i)\b(https?|ftp)(?=\\:)", "\\1" + WJ, s)
+    s = re.sub(r"(?i)\b(www)(?=\.)", "\\1" + WJ, s)
+    s = s.replace("\\@", "\\@" + WJ)
     return s
 
 
