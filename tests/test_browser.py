@@ -243,4 +243,7 @@ def test_screenshots(app_page, name, rows, metric):
         page.get_by_text("Numbers use a decimal comma", exact=False).first.wait_for()
         assert page.locator("[data-testid=stMetric]").count() == 0
     SHOTS.mkdir(parents=True, exist_ok=True)
+    # Streamlit scrolls inside its own container: a tall window shows the whole page
+    page.set_viewport_size({"width": 1400, "height": 4400})
+    _settle(page)
     page.screenshot(path=str(SHOTS / f"page_{name}.png"), full_page=True)
