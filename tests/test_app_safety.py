@@ -102,9 +102,14 @@ def test_breaking_the_escape_is_caught(monkeypatch):
     would fail."""
     import solutions.ui.sections as sections
     monkeypatch.setattr(sections, "plain_frame", lambda df: df)
-    at = run_with_table([{"ingredient": IMG, "amount": "1", "unit": "g", "formula": "NaCl"},
-                         {"ingredient": "water", "amount": "100", "unit": "g"}])
-    assert any(not no_markup(t) for t in page_texts(at))
+    sections.st.cache_resource.clear()      # the shown frames are cached per page
+    try:
+        at = run_with_table([{"ingredient": IMG, "amount": "1", "unit": "g",
+                              "formula": "NaCl"},
+                             {"ingredient": "water", "amount": "100", "unit": "g"}])
+        assert any(not no_markup(t) for t in page_texts(at))
+    finally:
+        sections.st.cache_resource.clear()  # no unescaped frame stays in the cache
 
 
 @settings(max_examples=300, deadline=None)
@@ -277,7 +282,11 @@ def test_an_unforeseen_error_in_a_section_is_a_plain_message(monkeypatch):
     def boom(*a, **k):
         raise RuntimeError("/secret/path/module.py exploded")
     monkeypatch.setattr(sections, "composition_frame", boom)
-    at = AppTest.from_file(APP, default_timeout=TIMEOUT).run()
+    sections.st.cache_resource.clear()      # the shown frames are cached per page
+    try:
+        at = AppTest.from_file(APP, default_timeout=TIMEOUT).run()
+    finally:
+        sections.st.cache_resource.clear()
     assert not at.exception
     errors = [e.value for e in at.error]
     assert any(e.startswith("Internal error in the results section; please report it")

@@ -67,7 +67,7 @@ def render_design(key: S.PageKey, page: PageResult) -> None:
            "the Results." if page.read.problems else "")))
     tool = st.segmented_control("Tool", list(DESIGN_TOOLS), format_func=DESIGN_TOOLS.get,
                                 key="design_tool", label_visibility="collapsed")
-    ctx = dict(key=key, page=page, here=D.table_key(key.table(), key.decimal),
+    ctx = dict(key=key, page=page, here=key.decimal + key.table_csv,   # = D.table_key
                stem=file_stem(d["recipe_name"]), shown=sort_cautions(d), ss=ss)
     if tool == "target":
         _target(**ctx)

@@ -31,6 +31,7 @@ from .tables import (BASES, COLUMN_HELP, EDITOR_COLUMNS, composition_frame, head
                      property_frame, solvent_words, sort_cautions)
 
 __all__ = ["guarded", "library_for", "page_for", "curves_for", "charts_for", "html_for",
+           "frames_for",
            "render_sidebar", "render_recipe", "render_results", "render_charts",
            "render_downloads", "render_tools", "show_table", "USE_OPTIONS"]
 
@@ -82,6 +83,14 @@ def charts_for(key: S.PageKey) -> dict:
 def html_for(key: S.PageKey) -> str:
     page = page_for(key)
     return html_report(report_dict(page), report_charts(page, curves_for(key)))
+
+
+@st.cache_resource(show_spinner=False, max_entries=256)
+def frames_for(key: S.PageKey, bases: tuple) -> tuple:
+    """The property and composition tables of a page, escaped for display (cached: they
+    are rebuilt only when the page or the bases shown change)."""
+    d = page_for(key).d
+    return plain_frame(property_frame(d)), plain_frame(composition_frame(d, list(bases)))
 
 
 def show_table(container, df) -> None:
@@ -241,7 +250,8 @@ def render_results(key: S.PageKey, page: PageResult) -> bool:
     for col, (label, value, helptext) in zip(st.columns(len(heads)), heads):
         col.metric(plain(label), plain(value), help=plain(helptext), border=True)
     st.subheader("Solution properties")
-    show_table(st, property_frame(d))
+    props, comp = frames_for(key, tuple(ss["bases"]))
+    st.table(props, hide_index=True)
     if d["warnings"]:
         with st.container(border=True):
             st.markdown("**Warnings** (numbered as in the Warnings column)")
@@ -251,7 +261,7 @@ def render_results(key: S.PageKey, page: PageResult) -> bool:
     # the widget's own key is dropped on runs that stop before it; "bases" keeps the choice
     st.pills("Bases shown", list(BASES), format_func=BASES.get, selection_mode="multi",
              default=ss["bases"], key="bases_pick", on_change=S.on_bases, args=(ss,))
-    show_table(st, composition_frame(d, ss["bases"]))
+    st.table(comp, hide_index=True)
     st.caption("Masses are as weighed (a hydrate with its water); amounts and molalities in "
                f"moles of the ingredient; the solvent row counts the {words['solvent']} "
                "added, while molalities are per kg of all "
