@@ -293,3 +293,28 @@ def test_an_unforeseen_error_in_a_section_is_a_plain_message(monkeypatch):
                for e in errors), errors
     assert not any("/secret" in e for e in errors)
     assert [h.value for h in at.header if h.value == "Conditions"]
+
+
+# ------------------------------------------------------------------ configuration
+def test_config_hides_error_details_and_limits_uploads():
+    import tomllib
+    cfg = tomllib.loads((ROOT / ".streamlit" / "config.toml").read_text())
+    assert cfg["client"]["showErrorDetails"] == "none"
+    assert 1 <= cfg["server"]["maxUploadSize"] <= 10          # MB
+    assert cfg["server"]["address"] == "127.0.0.1"
+
+
+def test_browser_tests_fail_not_skip_under_ci_without_chromium(monkeypatch, tmp_path):
+    """CI=true and no Chromium: the browser tests fail (a broken install cannot pass)."""
+    import importlib.util
+    spec = importlib.util.spec_from_file_location("browser_tests",
+                                                  ROOT / "tests" / "test_browser.py")
+    mod = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(mod)
+    monkeypatch.setattr(mod, "CHROMIUM", str(tmp_path / "no-such-chromium"))
+    monkeypatch.setenv("CI", "true")
+    with pytest.raises(pytest.fail.Exception):
+        mod._need_browser()
+    monkeypatch.setenv("CI", "false")
+    with pytest.raises(pytest.skip.Exception):
+        mod._need_browser()
