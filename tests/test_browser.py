@@ -239,6 +239,9 @@ def test_screenshots(app_page, name, rows, metric):
     assert not page.locator("[data-testid=stException]").count()
     if metric:
         assert page.locator("[data-testid=stMetric]").count() >= 4
+        charts = page.locator("[data-testid=stVegaLiteChart]")
+        charts.nth(2).locator("canvas, svg").first.wait_for()
+        assert charts.count() == 3
     else:
         page.get_by_text("Numbers use a decimal comma", exact=False).first.wait_for()
         assert page.locator("[data-testid=stMetric]").count() == 0

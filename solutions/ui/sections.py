@@ -75,8 +75,21 @@ def curves_for(key: S.PageKey) -> dict:
 
 @st.cache_resource(show_spinner=False, max_entries=128)
 def charts_for(key: S.PageKey) -> dict:
-    """The page's charts as Vega-Lite specifications, built once per page key."""
-    return chart_specs(page_for(key), curves_for(key))
+    """The page's charts as Vega-Lite specifications, built once per page key, their
+    datasets already in the Arrow form Streamlit sends (it takes bytes as they are, so a
+    rerun does not convert the data again)."""
+    return {k: _arrow_datasets(spec) for k, spec in
+            chart_specs(page_for(key), curves_for(key)).items()}
+
+
+def _arrow_datasets(spec: dict) -> dict:
+    try:   # Streamlit's own converter; without it the records are sent as they are
+        from streamlit.dataframe_util import convert_anything_to_arrow_bytes
+    except ImportError:  # pragma: no cover - another Streamlit version
+        return spec
+    import pandas as pd
+    return {**spec, "datasets": {k: convert_anything_to_arrow_bytes(pd.DataFrame(v))
+                                 for k, v in spec.get("datasets", {}).items()}}
 
 
 @st.cache_data(show_spinner=False, max_entries=16)
