@@ -1,6 +1,7 @@
 """Load benchmark of the dashboard through its own websocket protocol (a script, not a test).
 
     python tests/bench_load.py [--sessions 1 10 20] [--edits 5] [--timeout 60] [--warm]
+                               [--think SECONDS]
 
 Starts ``streamlit run streamlit_app.py`` on a free loopback port (127.0.0.1 only), then
 for each N opens N browser-like sessions on ``/_stcore/stream``: each sends the first
@@ -8,7 +9,8 @@ run request a browser sends, waits for the page, then makes ``--edits`` edits of
 solution temperature (a different value per session and edit, so every edit is a cache
 miss that re-evaluates the recipe and rebuilds the charts; with ``--warm`` all sessions
 alternate between two shared values, so the updates are cache hits and measure the rerun
-itself). The edit-to-update latency
+itself; with ``--think`` each session pauses, as a person reading the page would, before
+each edit). The edit-to-update latency
 is the time from sending the new widget value to the server's "script finished"
 message. Prints the median and 90th percentile per N and the server's resident memory.
 Every wait is bounded by ``--timeout`` seconds; the server is stopped by its pid.
@@ -22,6 +24,7 @@ from __future__ import annotations
 import argparse
 import asyncio
 import os
+import random
 import socket
 import statistics
 import subprocess
@@ -132,7 +135,7 @@ class Session:
 
 
 async def drive(port: int, n: int, edits: int, timeout: float,
-                warm: bool = False) -> tuple[list, list]:
+                warm: bool = False, think: float = 0.0) -> tuple[list, list]:
     sessions = [Session(port, timeout) for _ in range(n)]
     await asyncio.gather(*(s.open() for s in sessions))
     first = await asyncio.gather(*(s.run() for s in sessions))
@@ -141,7 +144,10 @@ async def drive(port: int, n: int, edits: int, timeout: float,
     lat: list[float] = []
 
     async def editor(k: int, s: Session):
+        rng = random.Random(k)
         for e in range(edits):
+            if think:   # a person reads the page before the next edit
+                await asyncio.sleep(rng.uniform(0.5, 1.5) * think)
             T = (25.0 + e % 2 if warm else                    # shared values: cache hits
                  round(20.0 + 0.37 * k + 1.13 * e + 0.01 * n, 2))  # new value: a miss
             s.shown.clear()
@@ -164,6 +170,9 @@ def main(argv=None) -> int:
     ap.add_argument("--sessions", type=int, nargs="+", default=[1, 10, 20])
     ap.add_argument("--edits", type=int, default=5)
     ap.add_argument("--timeout", type=float, default=60.0)
+    ap.add_argument("--think", type=float, default=0.0,
+                    help="mean seconds a session waits before each edit (0: edits back "
+                         "to back, the worst case)")
     ap.add_argument("--warm", action="store_true",
                     help="every session alternates between the same two temperatures, so "
                          "after the first edits every update is a cache hit (the cost of "
@@ -175,13 +184,15 @@ def main(argv=None) -> int:
     proc = start_server(port)
     try:
         print(f"server pid {proc.pid} on 127.0.0.1:{port}; {os.cpu_count()} CPU(s); "
+              f"think {args.think:g} s; "
               f"{args.edits} edits per session of the solution temperature, "
               + ("alternating between two values shared by all sessions (cache hits)"
                  if args.warm else "each a new value (a cache miss)"))
         print(f"{'N':>3} {'first page med (s)':>19} {'edit med (s)':>13} "
               f"{'edit p90 (s)':>13} {'edits':>6} {'server RSS (MB)':>16}")
         for n in args.sessions:
-            first, lat = asyncio.run(drive(port, n, args.edits, args.timeout, args.warm))
+            first, lat = asyncio.run(drive(port, n, args.edits, args.timeout, args.warm,
+                                           args.think))
             print(f"{n:>3} {statistics.median(first):>19.2f} {statistics.median(lat):>13.2f} "
                   f"{pct(lat, 0.9):>13.2f} {len(lat):>6} {rss_mb(proc.pid):>16.0f}")
     finally:
