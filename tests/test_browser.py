@@ -227,6 +227,9 @@ def test_pasted_names_are_shown_as_typed_never_fetched(app_page):
     ("demo", None, True),
     ("propylene_glycol_70", [("propylene glycol", "70", "% w/w"), ("water", "balance", "")],
      True),
+    ("long_names", [("magnesium chloride hexahydrate", "2.5", "% w/w"),
+                    ("sodium citrate dihydrate", "0.5", "% w/w"), ("water", "balance", "")],
+     True),
     ("bad_paste", [("sodium chloride", "0,9", "% w/v"), ("water", "q.s. to 1000", "mL")],
      False),
 ])

@@ -168,7 +168,10 @@ def render_recipe() -> tuple[S.PageKey, PageResult]:
               width="stretch")
     st.caption("Type in the table, or paste rows copied from a spreadsheet into it (click "
                "a cell, Ctrl+V). Rows are counted from the top, starting at 1.")
-    column_config = {c: st.column_config.TextColumn(COLUMN_HELP[c][0], help=COLUMN_HELP[c][1])
+    # room for a long ingredient name, with every column still in view
+    widths = {"ingredient": 205}   # px
+    column_config = {c: st.column_config.TextColumn(COLUMN_HELP[c][0], help=COLUMN_HELP[c][1],
+                                                    width=widths.get(c))
                      for c in EDITOR_COLUMNS}
     table = st.data_editor(S.table_or_blank(ss), key=S.EDITOR_KEY, num_rows="dynamic",
                            hide_index=True, column_config=column_config,

@@ -34,7 +34,8 @@ COLUMN_HELP = {
              "M, mM, mol/kg"),
     "formula": ("Formula", "Optional: defines or overrides the ingredient for this recipe"),
     "molar_mass": ("Molar mass (g/mol)", "Optional: instead of a formula"),
-    "density": ("Pure density (g/mL)", "Optional: for a liquid measured by volume"),
+    "density": ("Density (g/mL)", "Optional: the pure liquid's density, for a liquid measured "
+                "by volume"),
     "ions": ("Ions", "Optional: particles per formula unit (van 't Hoff factor), e.g. 2 "
              "for NaCl"),
     "assay_%": ("Assay (%)", "Optional: purity of what is weighed"),
