@@ -21,6 +21,9 @@ Charts:
 """
 from __future__ import annotations
 
+import copy
+import functools
+import json
 from dataclasses import dataclass, field
 
 import altair as alt
@@ -32,7 +35,7 @@ from .composition import Composition
 
 __all__ = ["Curve", "FACTORS", "concentration_curve", "vapor_pressure_curve",
            "vapor_pressure_range", "solution_vapor_pressure", "concentration_chart",
-           "vapor_pressure_chart", "clausius_clapeyron_chart", "COLORS"]
+           "vapor_pressure_chart", "clausius_clapeyron_chart", "chart_spec", "DataChart", "COLORS"]
 
 #: concentration factors of chart (a): 0 (pure solvent) to 2× the recipe's solutes
 FACTORS = np.linspace(0.0, 2.0, 41)
@@ -144,48 +147,104 @@ def vapor_pressure_curve(comp: Composition, model: str, T_lo: float, T_hi: float
 
 
 # ------------------------------------------------------------------ charts
+# Each chart is built in two parts: its data (small frames, turned into named JSON
+# datasets) and its structure (marks, encodings, titles, scales), which depends only on
+# a few labels and flags. Building the structure in Altair costs far more than the data
+# (hundreds of ms against a few), so it is built once per structure and kept
+# (:func:`_structure`); a chart is then that structure with this recipe's datasets.
+def _records(df: pd.DataFrame) -> list:
+    return json.loads(df.to_json(orient="records", double_precision=15))
+
+
+def _named(i: int) -> alt.NamedData:
+    return alt.NamedData(name=f"set_{i}")
+
+
+@functools.lru_cache(maxsize=64)
+def _structure(kind: str, key: tuple) -> alt.TopLevelMixin:
+    """The chart of ``kind`` without data, for the structure ``key`` (see each chart)."""
+    return _BUILD[kind](*key)
+
+
+@dataclass(frozen=True)
+class DataChart:
+    """A chart of this module: a shared structure (an Altair chart without data, built
+    once per structure) and this chart's datasets. ``to_dict``/``to_json`` give the
+    Vega-Lite specification as Altair would, data inline."""
+
+    kind: str
+    key: tuple
+    datasets: dict
+
+    @property
+    def structure(self):
+        """The Altair chart without data (shared: do not change it)."""
+        return _structure(self.kind, self.key)
+
+    def to_dict(self, validate: bool = True) -> dict:
+        """The Vega-Lite specification (a new dict). The structure is converted and
+        checked against the schema once and kept; ``validate`` is accepted for Altair's
+        signature (the check has been made)."""
+        spec = copy.deepcopy(_structure_spec(self.kind, self.key))
+        spec["datasets"] = {**spec.get("datasets", {}), **self.datasets}
+        return spec
+
+    def to_json(self, **kwargs) -> str:
+        kwargs.pop("validate", None)
+        return json.dumps(self.to_dict(), **kwargs)
+
+
+def _chart(kind: str, key: tuple, frames: list[pd.DataFrame]) -> DataChart:
+    """The structure of ``kind``/``key`` with ``frames`` as its datasets."""
+    return DataChart(kind, key, {f"set_{i}": _records(f) for i, f in enumerate(frames)})
+
+
+@functools.lru_cache(maxsize=64)
+def _structure_spec(kind: str, key: tuple) -> dict:
+    """The Vega-Lite specification of a structure, checked against the schema once."""
+    return _structure(kind, key).to_dict(validate=True)
+
+
+def chart_spec(chart) -> dict:
+    """A chart's Vega-Lite specification (a new dict, data inline): for a
+    :class:`DataChart` its cached structure plus its data, else Altair's ``to_dict``."""
+    return chart.to_dict()
+
+
 def _width(width):
     return "container" if width is None else width
 
 
-def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float | None,
-                        P_kPa: float = 101.325, width: int | None = 300,
-                        height: int = 260) -> alt.HConcatChart:
-    """Chart (a): freezing point and boiling point against the concentration factor.
-
-    freezing_C, boiling_C : the recipe's own values [°C], marked at factor 1.
-    P_kPa : external pressure of the boiling points [kPa], for the title.
-    """
-    df = curve.data
-    models = list(dict.fromkeys(df["model"]))
+def _concentration_structure(models: tuple, marked: tuple, P_kPa: float, width, height):
     dash_range = [[1, 0], [5, 3]][:len(models)]
     color_range = [COLORS["solution"], COLORS["dilute"]][:len(models)]
-    panels = []
-    for prop, value, ttl in (("Freezing point", freezing_C, "Freezing point at 101.325 kPa"),
-                             ("Boiling point", boiling_C, f"Boiling point at {P_kPa:g} kPa")):
-        sub = df[df["property"] == prop]
+    panels, i = [], 0
+    for (prop, ttl), has_mark in zip((("Freezing point", "Freezing point at 101.325 kPa"),
+                                      ("Boiling point", f"Boiling point at {P_kPa:g} kPa")),
+                                     marked):
         shift = "depression" if prop.startswith("Freezing") else "elevation"
-        base = alt.Chart(sub).encode(
+        base = alt.Chart(_named(i)).encode(
             x=alt.X("factor:Q", title="Concentration factor (× the recipe's solutes)",
                     scale=alt.Scale(domain=[0, 2])),
             y=alt.Y("T_C:Q", title=f"{prop} (°C)", scale=alt.Scale(zero=False)),
             color=alt.Color("model:N", title="Model",
-                            scale=alt.Scale(domain=models, range=color_range)),
+                            scale=alt.Scale(domain=list(models), range=color_range)),
             strokeDash=alt.StrokeDash("model:N", title="Model",
-                                      scale=alt.Scale(domain=models, range=dash_range)),
+                                      scale=alt.Scale(domain=list(models), range=dash_range)),
             tooltip=[alt.Tooltip("factor:Q", title="factor (×)", format=".2f"),
                      alt.Tooltip("model:N", title="model"),
                      alt.Tooltip("T_C:Q", title=f"{prop.lower()} (°C)", format=".3f"),
                      alt.Tooltip("shift_K:Q", title=f"{shift} (K)", format=".3f")])
+        i += 1
         # invisible points carry the tooltips; the legend shows the lines only
         layer = base.mark_line(strokeWidth=2) + base.mark_point(size=40, opacity=0).encode(
             color=alt.value(COLORS["mark"]), strokeDash=alt.value([1, 0]))
-        if value is not None:
-            mark = pd.DataFrame({"factor": [1.0], "T_C": [value], "label": ["this recipe"]})
-            pt = alt.Chart(mark).encode(
+        if has_mark:
+            pt = alt.Chart(_named(i)).encode(
                 x="factor:Q", y="T_C:Q",
                 tooltip=[alt.Tooltip("label:N", title=""),
                          alt.Tooltip("T_C:Q", title=f"{prop.lower()} (°C)", format=".3f")])
+            i += 1
             layer = layer + pt.mark_point(size=110, shape="diamond", filled=True,
                                           color=COLORS["mark"]) \
                 + pt.mark_text(dx=8, dy=-10, align="left", fontSize=11,
@@ -194,56 +253,69 @@ def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float
     return alt.hconcat(*panels).resolve_scale(y="independent")
 
 
-def _boiling_marks(boiling: dict[str, float], P_kPa: float, x: str, y: str):
+def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float | None,
+                        P_kPa: float = 101.325, width: int | None = 300,
+                        height: int = 260) -> DataChart:
+    """Chart (a): freezing point and boiling point against the concentration factor.
+
+    freezing_C, boiling_C : the recipe's own values [°C], marked at factor 1.
+    P_kPa : external pressure of the boiling points [kPa], for the title.
+    """
+    df = curve.data
+    models = tuple(dict.fromkeys(df["model"]))
+    frames, marked = [], []
+    for prop, value in (("Freezing point", freezing_C), ("Boiling point", boiling_C)):
+        frames.append(df[df["property"] == prop])
+        marked.append(value is not None)
+        if value is not None:
+            frames.append(pd.DataFrame({"factor": [1.0], "T_C": [value],
+                                        "label": ["this recipe"]}))
+    return _chart("concentration", (models, tuple(marked), float(P_kPa), width, height),
+                  frames)
+
+
+def _boiling_marks_frame(boiling: dict[str, float], P_kPa: float) -> pd.DataFrame:
     marks = pd.DataFrame({"series": list(boiling), "T_C": list(boiling.values()),
                           "p_kPa": P_kPa})
     marks["inv_T"] = 1000.0 / (marks["T_C"] + 273.15)
     marks["ln_p"] = np.log(marks["p_kPa"])
     marks["label"] = [f"boils at {t:.2f} °C" for t in marks["T_C"]]
-    return alt.Chart(marks).encode(
+    return marks
+
+
+def _boiling_marks(data: alt.NamedData, x: str, y: str):
+    return alt.Chart(data).encode(
         x=f"{x}:Q", y=f"{y}:Q",
         tooltip=[alt.Tooltip("series:N", title=""), alt.Tooltip("label:N", title="")])
 
 
-def _series_scale(df):
-    series = list(dict.fromkeys(df["series"]))
-    return alt.Scale(domain=series, range=[COLORS["solvent"], COLORS["solution"]][:len(series)])
+def _series_scale(series: tuple):
+    return alt.Scale(domain=list(series),
+                     range=[COLORS["solvent"], COLORS["solution"]][:len(series)])
 
 
-def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] | None = None,
-                         at_T: tuple[float, float] | None = None, at_note: str = "",
-                         width: int | None = None, height: int = 300) -> alt.LayerChart:
-    """Chart (b): vapor pressure against temperature, external pressure as a rule.
-
-    P_kPa : external pressure [kPa]
-    boiling : ``{series label: boiling point °C}`` to mark where each curve meets the rule
-    at_T : (temperature °C, vapor pressure kPa) of the solution as evaluated, marked
-    at_note : words added to that mark's label (e.g. "supercooled liquid")
-    """
-    df = curve.data
-    base = alt.Chart(df).encode(
+def _vapor_structure(series: tuple, has_boiling: bool, has_here: bool, width, height):
+    base = alt.Chart(_named(0)).encode(
         x=alt.X("T_C:Q", title="Temperature (°C)", scale=alt.Scale(zero=False, nice=False)),
         y=alt.Y("p_kPa:Q", title="Vapor pressure of the solvent (kPa)"),
-        color=alt.Color("series:N", title="", scale=_series_scale(df),
+        color=alt.Color("series:N", title="", scale=_series_scale(series),
                         legend=alt.Legend(orient="top-left")),
         tooltip=[alt.Tooltip("series:N", title=""),
                  alt.Tooltip("T_C:Q", title="temperature (°C)", format=".1f"),
                  alt.Tooltip("p_kPa:Q", title="vapor pressure (kPa)", format=".4g")])
-    rule_df = pd.DataFrame({"p_kPa": [P_kPa], "label": [f"external pressure {P_kPa:g} kPa"]})
-    rule = alt.Chart(rule_df).encode(y="p_kPa:Q", tooltip=alt.Tooltip("label:N", title=""))
+    rule = alt.Chart(_named(1)).encode(y="p_kPa:Q", tooltip=alt.Tooltip("label:N", title=""))
     layer = base.mark_line(strokeWidth=2) \
         + rule.mark_rule(strokeDash=[6, 4], color=COLORS["rule"]) \
         + rule.mark_text(align="left", dx=4, dy=-7, x=4, fontSize=11,
                          color=COLORS["rule"]).encode(text="label:N")
-    if boiling:
-        bm = _boiling_marks(boiling, P_kPa, "T_C", "p_kPa")
-        layer = layer + bm.mark_point(size=80, filled=True, color=COLORS["mark"])
-    if at_T is not None and all(v is not None for v in at_T):
-        here = pd.DataFrame({"T_C": [at_T[0]], "p_kPa": [at_T[1]],
-                             "label": [f"at {at_T[0]:g} °C{f' ({at_note})' if at_note else ''}: "
-                                       f"{at_T[1]:.4g} kPa"]})
-        hc = alt.Chart(here).encode(x="T_C:Q", y="p_kPa:Q",
-                                    tooltip=alt.Tooltip("label:N", title="this solution"))
+    i = 2
+    if has_boiling:
+        layer = layer + _boiling_marks(_named(i), "T_C", "p_kPa").mark_point(
+            size=80, filled=True, color=COLORS["mark"])
+        i += 1
+    if has_here:
+        hc = alt.Chart(_named(i)).encode(x="T_C:Q", y="p_kPa:Q",
+                                         tooltip=alt.Tooltip("label:N", title="this solution"))
         layer = layer + hc.mark_point(size=110, shape="diamond", filled=True,
                                       color=COLORS["mark"]) \
             + hc.mark_text(align="left", dx=8, dy=-8, fontSize=11,
@@ -252,28 +324,64 @@ def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] |
                             height=height)
 
 
-def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
-                             boiling: dict[str, float] | None = None,
-                             width: int | None = None, height: int = 300) -> alt.LayerChart:
-    """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
+def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] | None = None,
+                         at_T: tuple[float, float] | None = None, at_note: str = "",
+                         width: int | None = None, height: int = 300) -> DataChart:
+    """Chart (b): vapor pressure against temperature, external pressure as a rule.
+
+    P_kPa : external pressure [kPa]
+    boiling : ``{series label: boiling point °C}`` to mark where each curve meets the rule
+    at_T : (temperature °C, vapor pressure kPa) of the solution as evaluated, marked
+    at_note : words added to that mark's label (e.g. "supercooled liquid")
+    """
     df = curve.data
-    base = alt.Chart(df).encode(
+    frames = [df, pd.DataFrame({"p_kPa": [P_kPa],
+                                "label": [f"external pressure {P_kPa:g} kPa"]})]
+    if boiling:
+        frames.append(_boiling_marks_frame(boiling, P_kPa))
+    has_here = at_T is not None and all(v is not None for v in at_T)
+    if has_here:
+        frames.append(pd.DataFrame({
+            "T_C": [at_T[0]], "p_kPa": [at_T[1]],
+            "label": [f"at {at_T[0]:g} °C{f' ({at_note})' if at_note else ''}: "
+                      f"{at_T[1]:.4g} kPa"]}))
+    key = (tuple(dict.fromkeys(df["series"])), bool(boiling), has_here, width, height)
+    return _chart("vapor", key, frames)
+
+
+def _clausius_structure(series: tuple, has_boiling: bool, width, height):
+    base = alt.Chart(_named(0)).encode(
         x=alt.X("inv_T:Q", title="1000 / T (1/K)", scale=alt.Scale(zero=False, nice=False)),
         y=alt.Y("ln_p:Q", title="ln(p / kPa)", scale=alt.Scale(zero=False)),
-        color=alt.Color("series:N", title="", scale=_series_scale(df),
+        color=alt.Color("series:N", title="", scale=_series_scale(series),
                         legend=alt.Legend(orient="bottom-left")),
         tooltip=[alt.Tooltip("series:N", title=""),
                  alt.Tooltip("T_C:Q", title="temperature (°C)", format=".1f"),
                  alt.Tooltip("inv_T:Q", title="1000/T (1/K)", format=".4f"),
                  alt.Tooltip("p_kPa:Q", title="vapor pressure (kPa)", format=".4g"),
                  alt.Tooltip("ln_p:Q", title="ln(p / kPa)", format=".4f")])
-    rule_df = pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
-                            "label": [f"external pressure {P_kPa:g} kPa"]})
-    rule = alt.Chart(rule_df).encode(y="ln_p:Q", tooltip=alt.Tooltip("label:N", title=""))
+    rule = alt.Chart(_named(1)).encode(y="ln_p:Q", tooltip=alt.Tooltip("label:N", title=""))
     layer = base.mark_line(strokeWidth=2) \
         + rule.mark_rule(strokeDash=[6, 4], color=COLORS["rule"])
-    if boiling:
-        bm = _boiling_marks(boiling, P_kPa, "inv_T", "ln_p")
-        layer = layer + bm.mark_point(size=80, filled=True, color=COLORS["mark"])
+    if has_boiling:
+        layer = layer + _boiling_marks(_named(2), "inv_T", "ln_p").mark_point(
+            size=80, filled=True, color=COLORS["mark"])
     return layer.properties(title="Clausius–Clapeyron view", width=_width(width),
                             height=height)
+
+
+def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
+                             boiling: dict[str, float] | None = None,
+                             width: int | None = None, height: int = 300) -> DataChart:
+    """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
+    df = curve.data
+    frames = [df, pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
+                                "label": [f"external pressure {P_kPa:g} kPa"]})]
+    if boiling:
+        frames.append(_boiling_marks_frame(boiling, P_kPa))
+    key = (tuple(dict.fromkeys(df["series"])), bool(boiling), width, height)
+    return _chart("clausius", key, frames)
+
+
+_BUILD = {"concentration": _concentration_structure, "vapor": _vapor_structure,
+          "clausius": _clausius_structure}

@@ -21,6 +21,7 @@ import csv
 import io
 import math
 import re
+import unicodedata
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Iterable
@@ -42,17 +43,34 @@ __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T
 T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
 
 _COLUMN_ALIASES = {
-    "ingredient": ("ingredient", "name", "component", "material", "substance", "item"),
-    "amount": ("amount", "quantity", "qty", "value", "amt"),
-    "unit": ("unit", "units", "uom"),
-    "formula": ("formula",),
+    # English first, then German, French, Spanish, Italian, Dutch and Portuguese headers
+    # (compared lower-case, accents removed, a trailing "(unit)" or "[unit]" ignored)
+    "ingredient": ("ingredient", "name", "component", "material", "substance", "item",
+                   "zutat", "bestandteil", "substanz", "stoff", "komponente", "rohstoff",
+                   "composant", "produit", "ingrediente", "componente", "sustancia",
+                   "materia prima", "sostanza", "ingredient", "bestanddeel", "stof",
+                   "grondstof", "substancia", "materia-prima"),
+    "amount": ("amount", "quantity", "qty", "value", "amt", "menge", "anteil", "einwaage",
+               "quantite", "cantidad", "quantita", "hoeveelheid", "quantidade", "quant."),
+    "unit": ("unit", "units", "uom", "einheit", "unite", "unidad", "unita", "eenheid",
+             "unidade"),
+    "formula": ("formula", "formel", "summenformel", "formule", "formula quimica"),
     "molar_mass": ("molar_mass", "molar mass", "mw", "molar_mass_g_per_mol", "m (g/mol)",
-                   "molar mass (g/mol)", "mol_wt", "molecular weight"),
-    "density": ("density", "density_g_per_ml", "density (g/ml)", "rho"),
-    "ions": ("ions", "i", "van't hoff factor", "vant_hoff", "particles"),
+                   "molar mass (g/mol)", "mol_wt", "molecular weight", "molmasse",
+                   "molare masse", "molekulargewicht", "masse molaire", "masa molar",
+                   "peso molecular", "massa molare", "peso molecolare", "molaire massa",
+                   "molmassa", "massa molar"),
+    "density": ("density", "density_g_per_ml", "density (g/ml)", "rho", "dichte",
+                "densite", "masse volumique", "densidad", "densita", "dichtheid",
+                "densidade"),
+    "ions": ("ions", "i", "van't hoff factor", "vant_hoff", "particles", "ionen", "iones",
+             "ioni", "ioes", "ions"),
     "hydrate_water": ("hydrate_water", "hydrate", "water of crystallisation"),
-    "assay": ("assay_%", "assay", "assay %", "purity", "purity_%", "purity %", "assay (%)"),
+    "assay": ("assay_%", "assay", "assay %", "purity", "purity_%", "purity %", "assay (%)",
+              "reinheit", "gehalt", "purete", "teneur", "pureza", "riqueza", "purezza",
+              "titolo", "zuiverheid", "gehalte", "teor"),
 }
+_ALIAS_SET = {a for v in _COLUMN_ALIASES.values() for a in v}
 
 
 @dataclass(frozen=True)
@@ -106,12 +124,28 @@ class Recipe:
 
 
 # ------------------------------------------------------------------------------ reading
+def _header_key(col) -> str:
+    """A header as compared with the aliases: lower-case, accents removed, a trailing
+    "(g/mol)" or "[%]" and surrounding spaces dropped."""
+    c = unicodedata.normalize("NFKD", str(col)).encode("ascii", "ignore").decode()
+    c = c.strip().lower()
+    if c in _ALIAS_SET:
+        return c
+    c = re.sub(r"\s*[\(\[][^\)\]]*[\)\]]\s*$", "", c).strip()
+    return c
+
+
 def find_columns(columns: Iterable[str]) -> dict[str, str]:
     """Map the canonical column names (ingredient, amount, unit, formula, molar_mass, density,
-    ions, hydrate_water, assay) to the columns of a table as a chemist headed them."""
+    ions, hydrate_water, assay) to the columns of a table as a chemist headed them, in
+    English or in German, French, Spanish, Italian, Dutch or Portuguese.
+
+    >>> find_columns(["Zutat", "Menge", "Einheit", "Lieferant", "Molmasse (g/mol)"])
+    {'ingredient': 'Zutat', 'amount': 'Menge', 'unit': 'Einheit', 'molar_mass': 'Molmasse (g/mol)'}
+    """
     found = {}
     for col in columns:
-        c = str(col).strip().lower()
+        c = _header_key(col)
         for canon, aliases in _COLUMN_ALIASES.items():
             if c in aliases and canon not in found:
                 found[canon] = col

@@ -91,12 +91,33 @@ def safe_cell(v):
     return v
 
 
+#: significant figures of a number in a CSV export: above any input's precision, below
+#: binary floating-point noise (9.000000000000004 is written 9)
+CSV_SIG = 12
+
+
+def csv_value(x):
+    """A cell of a CSV export: a float to :data:`CSV_SIG` significant figures, ``None``
+    as an empty cell, anything else as it is.
+
+    >>> csv_value(9.000000000000004), csv_value(None), csv_value(0.1 + 0.2), csv_value("q.s.")
+    ('9', '', '0.3', 'q.s.')
+    """
+    if x is None:
+        return ""
+    if isinstance(x, float):
+        return f"{x:.{CSV_SIG}g}" if math.isfinite(x) else ""
+    return x
+
+
 def summary_csv(d: dict) -> str:
-    """One tidy table: section, item, quantity, value, unit, note."""
+    """One tidy table: section, item, quantity, value, unit, note; numbers to
+    :data:`CSV_SIG` significant figures, empty cells for missing values."""
     out = io.StringIO()
     w = csv.writer(out)
     w.writerow(["section", "item", "quantity", "value", "unit", "note"])
-    row = lambda *r: w.writerow([safe_cell(x) for x in r])  # noqa: E731
+    row = lambda *r: w.writerow([csv_value(x) if isinstance(x, float) else safe_cell(csv_value(x))
+                                 for x in r])  # noqa: E731
     tool = d.get("tool", {})
     row("tool", "solutions", "version", tool.get("version", ""), "", tool.get("date", ""))
     row("recipe", d.get("recipe_name", ""), "name", d.get("recipe_name", ""), "", "")

@@ -16,6 +16,7 @@ from solutions.evaluate import evaluate
 from solutions.ingredients import default_library, read_library_file
 from solutions.recipe import parse_batch, read_recipe
 from solutions.report import BASIS_LABELS, PROPERTY_LABELS
+from solutions.ui.safe import plain
 from solutions.ui.state import EDITOR_KEY, PRESSURE_PRESETS
 from solutions.ui.tables import BASES, HEADLINE
 
@@ -158,7 +159,7 @@ def test_unknown_ingredient_row_is_reported_and_the_rest_computes():
         read_recipe(table, default_library())
     assert exc.value.row == 3 and exc.value.column == "ingredient"
     errors = [e.value for e in at.error]
-    assert any(str(exc.value) in e for e in errors), errors
+    assert any(plain(str(exc.value)) in e for e in errors), errors
     assert any("not in the ingredient library" in e for e in errors)
     # the rest of the recipe is evaluated as if the bad row were absent
     check_page_against(at, library_dict("saline_rinse"))
@@ -177,8 +178,10 @@ def test_bad_unit_row_is_reported(unit):
     with pytest.raises(RecipeError) as exc:
         read_recipe(table, default_library())
     assert exc.value.row == 1 and exc.value.column == "unit"
-    assert [e.value for e in at.error] == [f"Left out of the results — {exc.value}"]
-    assert property_table(at) is not None  # the rest (water alone) still evaluates
+    assert at.error[0].value == f"Left out of the results — {plain(str(exc.value))}"
+    # the only solute is refused: no results for plain water, and the reason
+    assert at.error[1].value.startswith("No results: every dissolved ingredient was left out")
+    assert not at.metric and not [t for t in at.table if "Property" in t.value.columns]
 
 
 def test_recipe_level_error_keeps_the_page_working():
@@ -195,7 +198,7 @@ def test_recipe_level_error_keeps_the_page_working():
     table.loc[2, ["amount", "unit"]] = [edit["amount"], edit["unit"]]
     with pytest.raises(RecipeError) as exc:
         evaluate(read_recipe(table, default_library()))
-    assert any(e.value == f"No results: {exc.value}" for e in at.error)
+    assert any(e.value == f"No results: {plain(str(exc.value))}" for e in at.error)
     assert not at.metric
     at.button(key="reload_demo").click().run()
     check_page_against(at, library_dict("brine_bath"))
@@ -214,9 +217,10 @@ def test_paste_block_with_decimal_comma():
     check_page_against(at, library_dict("pasted recipe", table=table))
 
 
-def test_custom_ingredient_form_and_library_file(tmp_path):
+def test_custom_ingredient_form_and_library_file(tmp_path, monkeypatch):
     path = tmp_path / "mine.csv"
-    at = run_app(library_path=str(path))
+    monkeypatch.setenv("SOLUTIONS_USER_LIBRARY", str(path))
+    at = run_app()
     at.text_input(key="new_name").input("test osmolyte")
     at.number_input(key="new_molar_mass").set_value(150.0)
     at.number_input(key="new_ions").set_value(1.0)
@@ -252,7 +256,7 @@ def test_every_caution_is_shown():
     shown = " ".join(w.value for w in at.warning)
     assert d["cautions"]
     for c in d["cautions"]:
-        assert c in shown
+        assert plain(c) in shown
 
 
 @pytest.mark.parametrize("name", sorted(p.stem for p in RECIPES.glob("*.csv")))
@@ -264,7 +268,7 @@ def test_every_demo_recipe_renders(name):
     d = library_dict(name)
     warn_text = " ".join(m.value for m in at.markdown)
     for w in d["warnings"]:
-        assert w in warn_text
+        assert plain(w) in warn_text
 
 
 # ------------------------------------------------------------------ the page's helpers

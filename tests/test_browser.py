@@ -142,17 +142,18 @@ def _library_dict():
     return {**d, "recipe": [dict(zip(("ingredient", "amount", "unit"), row)) for row in ROWS]}
 
 
-def _paste_recipe(pg):
+def _paste_recipe(pg, rows=ROWS, wait_for_metric=True):
     pg.get_by_role("button", name="Clear table").click()
     pg.get_by_text("No results:").wait_for()
-    tsv = "\n".join("\t".join(r) for r in ROWS)
+    tsv = "\n".join("\t".join(r) for r in rows)
     pg.evaluate("t => navigator.clipboard.writeText(t)", tsv)
     grid = pg.locator("[data-testid=stDataFrameResizable]").first
     box = grid.bounding_box()
     # first data cell: past the ~33 px row-selector column and the ~35 px header row
     pg.mouse.click(box["x"] + 33 + 40, box["y"] + 35 + 17)
     pg.keyboard.press("Control+V")
-    pg.locator("[data-testid=stMetric]").first.wait_for()
+    if wait_for_metric:
+        pg.locator("[data-testid=stMetric]").first.wait_for()
     _settle(pg)
 
 
@@ -182,7 +183,7 @@ def test_pasted_recipe_freezing_point_and_csv_download(app_page, tmp_path):
     assert text == summary_csv(d)
     rows = list(csv.reader(io.StringIO(text)))
     fp = next(r for r in rows if r[:3] == ["property", "solution", "Freezing point"])
-    assert float(fp[3]) == d["solution"]["freezing_point_C"]
+    assert float(fp[3]) == pytest.approx(d["solution"]["freezing_point_C"], rel=1e-11)
     assert [r[1:5] for r in rows if r[0] == "recipe row"] == \
         [[n, "amount", a, u] for n, a, u in ROWS]
 
@@ -197,3 +198,58 @@ def test_html_report_download_is_self_contained(app_page, tmp_path):
     assert "<script" not in html.lower() and not re.search(r"<link\b", html, re.I)
     assert html.count("<svg") == 3
     assert "Freezing point" in html and "Osmolality" in html
+
+
+IMG = "![x](http://127.0.0.1:1/b.png)"
+TAG = '<img src="http://127.0.0.1:1/c.png">'
+
+
+def test_pasted_names_are_shown_as_typed_never_fetched(app_page):
+    """Names pasted from a spreadsheet that look like Markdown or HTML images: the page
+    shows the characters, makes no image or link of them and requests nothing."""
+    page = app_page
+    asked = []
+    page.on("request", lambda r: asked.append(r.url) if "127.0.0.1:1/" in r.url else None)
+    rows = [(IMG, "1", "g", "NaCl"), (TAG, "1", "g", "KCl"), ("water", "100", "g", "")]
+    _paste_recipe(page, rows)
+    assert not page.locator("[data-testid=stException]").count()
+    assert page.locator("img[src*='127.0.0.1:1']").count() == 0
+    assert page.locator("a[href*='127.0.0.1:1']").count() == 0
+    body = page.locator("[data-testid=stMain]").inner_text().replace("\u2060", "")
+    assert IMG in body and TAG in body
+    page.wait_for_timeout(500)
+    assert asked == []
+    SHOTS.mkdir(parents=True, exist_ok=True)
+    page.screenshot(path=str(SHOTS / "browser_markup_names.png"), full_page=True)
+
+
+@pytest.mark.parametrize("name, rows, metric", [
+    ("demo", None, True),
+    ("propylene_glycol_70", [("propylene glycol", "70", "% w/w"), ("water", "balance", "")],
+     True),
+    ("long_names", [("magnesium chloride hexahydrate", "2.5", "% w/w"),
+                    ("sodium citrate dihydrate", "0.5", "% w/w"), ("water", "balance", "")],
+     True),
+    ("bad_paste", [("sodium chloride", "0,9", "% w/v"), ("water", "q.s. to 1000", "mL")],
+     False),
+])
+def test_screenshots(app_page, name, rows, metric):
+    """The page for a demo recipe, a 70 % propylene glycol recipe and a bad paste: no
+    exception element, results or a plain message; the PNGs go to $SOLUTIONS_SHOTS."""
+    page = app_page
+    if rows is not None:
+        _paste_recipe(page, rows, wait_for_metric=metric)
+    assert not page.locator("[data-testid=stException]").count()
+    if metric:
+        assert page.locator("[data-testid=stMetric]").count() >= 4
+        charts = page.locator("[data-testid=stVegaLiteChart]")
+        charts.nth(2).locator("canvas, svg").first.wait_for()
+        assert charts.count() == 3
+    else:
+        page.get_by_text("Numbers use a decimal comma", exact=False).first.wait_for()
+        assert page.locator("[data-testid=stMetric]").count() == 0
+    SHOTS.mkdir(parents=True, exist_ok=True)
+    # Streamlit scrolls inside its own container: a tall window shows the whole page
+    page.set_viewport_size({"width": 1400, "height": 4400})
+    _settle(page)
+    page.screenshot(path=str(SHOTS / f"page_{name}.png"), full_page=True)

@@ -9,19 +9,24 @@ library's message; the page stays usable.
 """
 from __future__ import annotations
 
+import logging
 import math
+import re
 from dataclasses import dataclass, field
 
 import pandas as pd
 
-from ..charts import (Curve, clausius_clapeyron_chart, concentration_chart,
+from ..charts import (Curve, chart_spec, clausius_clapeyron_chart, concentration_chart,
                       concentration_curve, vapor_pressure_chart, vapor_pressure_curve,
                       vapor_pressure_range)
 from ..errors import RecipeError, SolutionsError
 from ..evaluate import Evaluation, evaluate
 from ..ingredients import Library
 from ..recipe import Recipe, parse_batch, read_recipe
+from .safe import InputLimitError, check_table_limits
 from .tables import EDITOR_COLUMNS, clean_table
+
+_log = logging.getLogger(__name__)
 
 __all__ = ["Conditions", "RowProblem", "TableRead", "PageResult", "read_table",
            "evaluate_table", "chart_curves"]
@@ -37,14 +42,19 @@ class Conditions:
     rho_measured_g_per_mL: float | None = None
     batch_text: str | None = None      # e.g. "5 L"; None = as the recipe states
     T_prep_C: float = 20.0
+    use: str | None = None             # "technical": never meets the body
 
     def evaluate_kwargs(self) -> dict:
-        """Keyword arguments of :func:`solutions.evaluate.evaluate`, in SI."""
-        return dict(T=self.T_C + 273.15, P=self.P_kPa * 1e3, model=self.model,
-                    rho_measured=None if self.rho_measured_g_per_mL is None
-                    else self.rho_measured_g_per_mL * 1e3,
-                    batch=parse_batch(self.batch_text) if self.batch_text else None,
-                    T_prep=self.T_prep_C + 273.15)
+        """Keyword arguments of :func:`solutions.evaluate.evaluate`, in SI (``use`` only
+        when it is "technical", so the library's default stands otherwise)."""
+        kw = dict(T=self.T_C + 273.15, P=self.P_kPa * 1e3, model=self.model,
+                  rho_measured=None if self.rho_measured_g_per_mL is None
+                  else self.rho_measured_g_per_mL * 1e3,
+                  batch=parse_batch(self.batch_text) if self.batch_text else None,
+                  T_prep=self.T_prep_C + 273.15)
+        if self.use == "technical":
+            kw["use"] = "technical"
+        return kw
 
 
 @dataclass(frozen=True)
@@ -83,20 +93,47 @@ def _blank(rec: dict) -> bool:
     return all(str(rec.get(c, "") or "").strip() == "" for c in ("ingredient", "amount", "unit"))
 
 
+#: the message of an error the library did not foresee (no type, path or traceback)
+INTERNAL = ("internal error while {what}; please report it with the recipe that caused "
+            "it")
+_COMMA_NUMBER = re.compile(r"^\s*[-+]?\d*,\d+\s*$")
+DECIMAL_HINT = ("if your numbers use a decimal comma (0,9), tick “Numbers use a decimal "
+                "comma” under the table")
+
+
+def _unexpected_row(df: pd.DataFrame, keep: list[int], library: Library, decimal: str,
+                    exc_type: type) -> int | None:
+    """The first kept row that alone raises ``exc_type`` (an error the library did not
+    turn into a RecipeError), as an index into ``keep``; None if no single row does."""
+    for k, i in enumerate(keep):
+        try:
+            read_recipe(df.iloc[[i]].reset_index(drop=True), library, decimal=decimal)
+        except exc_type:
+            return k
+        except Exception:   # noqa: BLE001 - any other outcome: not this row
+            continue
+    return None
+
+
 def read_table(table: pd.DataFrame, library: Library, *, decimal: str = ".",
                name: str = "") -> TableRead:
     """Read the recipe table; each row the library rejects becomes a :class:`RowProblem`.
 
-    Row numbers are 1-based positions in ``table`` (blank rows count, as on screen).
+    Row numbers are 1-based positions in ``table`` (blank rows count, as on screen). A
+    table over the page's limits (:mod:`solutions.ui.safe`) is not read. When every
+    dissolved ingredient is left out there is no recipe (the page shows no results for
+    plain solvent), with a hint about the decimal comma when a refused amount has one.
     """
+    try:
+        check_table_limits(table)
+    except InputLimitError as exc:
+        return TableRead(None, fatal=str(exc))
     df = clean_table(table)
     keep = [i for i, rec in enumerate(df.to_dict("records")) if not _blank(rec)]
     problems: list[RowProblem] = []
     while True:
         if not keep:
-            return TableRead(None, problems, fatal="the recipe has no usable ingredient rows"
-                             if problems else "the recipe table is empty: add ingredient, "
-                             "amount and unit rows")
+            return TableRead(None, problems, fatal=_nothing_left(problems, df, decimal))
         sub = df.iloc[keep].reset_index(drop=True)
         try:
             recipe = read_recipe(sub, library, decimal=decimal, name=name)
@@ -110,10 +147,35 @@ def read_table(table: pd.DataFrame, library: Library, *, decimal: str = ".",
             del keep[exc.row - 1]
         except SolutionsError as exc:
             return TableRead(None, problems, fatal=str(exc))
+        except Exception as exc:  # noqa: BLE001 - a reader defect must not reach the page
+            k = _unexpected_row(df, keep, library, decimal, type(exc))
+            if k is None:
+                return TableRead(None, problems, fatal=INTERNAL.format(
+                    what="reading the recipe table"))
+            row = keep[k] + 1
+            reason = "this row could not be read (check the amount and unit)"
+            msg = str(RecipeError(reason, row, None, str(df.iloc[keep[k]]["ingredient"])))
+            problems.append(RowProblem(row, str(df.iloc[keep[k]]["ingredient"]), None,
+                                       reason, msg))
+            del keep[k]
+    if problems and all(r.is_solvent_rule or r.ingredient.is_water for r in recipe.rows):
+        return TableRead(None, problems, fatal=_nothing_left(problems, df, decimal))
     written = [{"ingredient": str(df.iloc[i]["ingredient"]).strip(),
                 "amount": str(df.iloc[i]["amount"]).strip(),
                 "unit": str(df.iloc[i]["unit"]).strip()} for i in keep]
     return TableRead(recipe, problems, [i + 1 for i in keep], written)
+
+
+def _nothing_left(problems: list[RowProblem], df: pd.DataFrame, decimal: str) -> str:
+    if not problems:
+        return "the recipe table is empty: add ingredient, amount and unit rows"
+    rows = ", ".join(str(p.row) for p in problems)
+    msg = (f"every dissolved ingredient was left out (row(s) {rows}), so there is nothing "
+           "to compute")
+    if decimal == "." and any(_COMMA_NUMBER.match(str(df.iloc[p.row - 1]["amount"]))
+                              for p in problems):
+        msg += "; " + DECIMAL_HINT
+    return msg
 
 
 def evaluate_table(table: pd.DataFrame, library: Library, conditions: Conditions, *,
@@ -127,6 +189,9 @@ def evaluate_table(table: pd.DataFrame, library: Library, conditions: Conditions
         d = ev.to_dict()
     except SolutionsError as exc:
         return PageResult(read, error=str(exc))
+    except Exception:  # noqa: BLE001 - a model defect: a plain message, details in the log
+        _log.exception("evaluating a recipe")
+        return PageResult(read, error=INTERNAL.format(what="evaluating this recipe"))
     return PageResult(read, ev, d)
 
 
@@ -140,11 +205,17 @@ def chart_curves(ev: Evaluation, d: dict) -> dict[str, Curve | str]:
         out["concentration"] = concentration_curve(ev.composition, ev.T, ev.P, ev.model)
     except SolutionsError as exc:
         out["concentration"] = str(exc)
+    except Exception:  # noqa: BLE001
+        _log.exception("concentration curve")
+        out["concentration"] = INTERNAL.format(what="computing this chart")
     try:
         lo, hi = vapor_pressure_range(d["solution"])
         out["vapor"] = vapor_pressure_curve(ev.composition, ev.model, lo, hi)
     except SolutionsError as exc:
         out["vapor"] = str(exc)
+    except Exception:  # noqa: BLE001
+        _log.exception("vapor-pressure curve")
+        out["vapor"] = INTERNAL.format(what="computing this chart")
     return out
 
 
@@ -203,10 +274,25 @@ def page_charts(page: PageResult, curves: dict, width: int | None = None) -> dic
     return out
 
 
+def chart_specs(page: PageResult, curves: dict) -> dict[str, dict]:
+    """The page's charts as Vega-Lite specifications (plain dicts, data inline), for
+    ``st.vega_lite_chart``: built once per page update and cached with it, so a rerun
+    does not convert the Altair charts again (:func:`solutions.charts.chart_spec`:
+    each chart structure is built and schema-checked once per process)."""
+    out = {}
+    for k, chart in page_charts(page, curves).items():
+        spec = chart_spec(chart)
+        view = spec.get("config", {}).get("view", {})
+        for dflt in ("continuousWidth", "continuousHeight"):   # Altair's theme, not ours
+            view.pop(dflt, None)
+        out[k] = spec
+    return out
+
+
 def report_charts(page: PageResult, curves: dict, width: int = 460) -> dict:
     """The charts keyed by caption, for :func:`solutions.report.html_report`."""
     return {CAPTIONS[k]: c for k, c in page_charts(page, curves, width).items()}
 
 
-__all__ += ["boiling_marks", "below_freezing", "EDITOR_COLUMNS", "report_dict", "CAPTIONS", "page_charts",
+__all__ += ["chart_specs", "boiling_marks", "below_freezing", "EDITOR_COLUMNS", "report_dict", "CAPTIONS", "page_charts",
             "report_charts"]

@@ -22,11 +22,11 @@ from ..batch import dilution_plan, weigh_out
 from ..errors import SolutionsError, TargetError
 from ..ingredients import Library
 from ..recipe import Recipe, parse_batch, resolve
-from ..report import fmt, json_text, property_text, safe_cell
+from ..report import csv_value, fmt, json_text, property_text, safe_cell
 from ..targeting import (PROPERTIES, Target, component_concentration, find_row, parse_quantity,
                          solve_target)
 from .compute import Conditions, TableRead
-from .tables import EDITOR_COLUMNS, clean_table, sort_cautions
+from .tables import EDITOR_COLUMNS, activity_label, clean_table, sort_cautions
 
 __all__ = ["TargetChoice", "TARGET_CHOICES", "CONCENTRATION_UNITS", "ADD_INGREDIENT",
            "TargetRequest", "TargetOutcome", "vary_options", "addable_ingredients",
@@ -87,10 +87,13 @@ TARGET_CHOICES: dict[str, TargetChoice] = {c[0]: TargetChoice(*c[1:]) for c in (
 )}
 
 
-def choice_label(key: str, cond: Conditions) -> str:
-    """The property box's text for choice ``key`` under the sidebar's conditions."""
+def choice_label(key: str, cond: Conditions, solution: dict | None = None) -> str:
+    """The property box's text for choice ``key`` under the sidebar's conditions (the
+    solvent's activity named after the page's ``solution`` solvent)."""
     c = TARGET_CHOICES[key]
     text = c.label.format(P=cond.P_kPa, T=cond.T_C)
+    if c.quantity == "water_activity" and solution is not None:
+        text = activity_label(solution)
     return f"{text} ({c.unit})" if c.unit else text
 
 
@@ -215,6 +218,7 @@ class TargetOutcome:
 def _solve_kwargs(cond: Conditions) -> dict:
     kw = cond.evaluate_kwargs()
     kw.pop("batch")   # a target is solved on the recipe as written; scale it afterwards
+    kw.pop("use", None)   # the design tools take no product use; design_cautions applies it
     return kw
 
 
@@ -398,13 +402,15 @@ def e_value_frame(d: dict) -> pd.DataFrame | None:
                          for i in e["ingredients"]])
 
 
-def design_cautions(d: dict, shown: dict | None = None, *, ingredients: bool = True
-                    ) -> list[str]:
+def design_cautions(d: dict, shown: dict | None = None, *, ingredients: bool = True,
+                    use: str | None = None) -> list[str]:
     """The cautions of a design result to show beside it: tonicity and freeze protection,
     and (``ingredients``) ingredient cautions the page does not show already (``shown``:
-    the page's :func:`~solutions.ui.tables.sort_cautions`)."""
+    the page's :func:`~solutions.ui.tables.sort_cautions`). With ``use="technical"`` the
+    tonicity caution is left out, as :func:`solutions.evaluate.evaluate` does."""
     groups = sort_cautions(d)
-    out = list(groups["results"])
+    tonicity = {c["message"] for c in d.get("cautions_detail", []) if c["tag"] == "tonicity"}
+    out = [c for c in groups["results"] if not (use == "technical" and c in tonicity)]
     if ingredients:
         have = set((shown or {}).get("ingredients", []))
         out += [c for c in groups["ingredients"] if c not in have]
@@ -456,7 +462,7 @@ def weigh_out_frame(d: dict) -> pd.DataFrame:
                      "Weigh (g)": fmt(r["weigh_g"], SIG),
                      "Volume (mL)": "" if vol is None else fmt(vol, SIG) + at,
                      "Assay (%)": "" if assay is None or assay == 100.0 else fmt(assay, 4),
-                     "Note": r["note"]})
+                     "Note": r.get("note") or ""})
     df = pd.DataFrame(rows)
     for col in ("Assay (%)", "Note"):
         if not df[col].any():
@@ -470,17 +476,18 @@ def weigh_out_csv(d: dict) -> str:
     f = d["final"]
     out = io.StringIO()
     w = csv.writer(out, lineterminator="\n")
-    row = lambda *r: w.writerow([safe_cell(x) for x in r])  # noqa: E731
+    row = lambda *r: w.writerow([csv_value(x) if isinstance(x, float) else safe_cell(csv_value(x))
+                                 for x in r])  # noqa: E731
     row("item", "as_written", "weigh_g", "volume_mL", "volume_at_C", "note")
     for r in d["weigh_out"]:
         vol = _volume(r)
-        row(r["ingredient"], _as_written(r), repr(r["weigh_g"]),
-            "" if vol is None else repr(vol),
+        row(r["ingredient"], _as_written(r), float(r["weigh_g"]),
+            None if vol is None else float(vol),
             "" if vol is None else (f"{f['volume_temperature_C']:g}" if r.get("solvent")
                                     else "20"), r["note"])
-    row("final solution (expected)", "", repr(f["mass_g"]), repr(f["volume_mL"]),
-        f"{f['volume_temperature_C']:g}", f"density {f['density_g_per_mL']!r} g/mL at "
-        f"{f['volume_temperature_C']:g} °C; {f['volume_mL_at_T']!r} mL at "
+    row("final solution (expected)", "", float(f["mass_g"]), float(f["volume_mL"]),
+        f"{f['volume_temperature_C']:g}", f"density {csv_value(f['density_g_per_mL'])} g/mL "
+        f"at {f['volume_temperature_C']:g} °C; {csv_value(f['volume_mL_at_T'])} mL at "
         f"{f['temperature_C']:g} °C")
     for m in d["warnings"]:
         row("warning", "", "", "", "", m)

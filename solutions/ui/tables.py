@@ -12,13 +12,16 @@ from pathlib import Path
 
 import pandas as pd
 
+from ..errors import RecipeError
 from ..recipe import find_columns
 from ..report import (COMPOSITION_SIG, PROPERTY_LABELS, dilute_text, fmt, property_model,
                       property_text, warning_links)
+from .safe import InputLimitError, check_table_limits, check_text_limits, max_upload_bytes
 
 __all__ = ["EDITOR_COLUMNS", "COLUMN_HELP", "blank_table", "clean_table", "frame_from_text",
            "frame_from_upload", "demo_recipes", "BASES", "DEFAULT_BASES", "composition_frame",
-           "property_frame", "HEADLINE", "headline", "sort_cautions"]
+           "property_frame", "HEADLINE", "headline", "sort_cautions", "is_water",
+           "activity_label", "solvent_words"]
 
 #: the recipe table's columns, in the order a spreadsheet block is pasted
 EDITOR_COLUMNS = ["ingredient", "amount", "unit", "formula", "molar_mass", "density", "ions",
@@ -31,7 +34,8 @@ COLUMN_HELP = {
              "M, mM, mol/kg"),
     "formula": ("Formula", "Optional: defines or overrides the ingredient for this recipe"),
     "molar_mass": ("Molar mass (g/mol)", "Optional: instead of a formula"),
-    "density": ("Pure density (g/mL)", "Optional: for a liquid measured by volume"),
+    "density": ("Density (g/mL)", "Optional: the pure liquid's density, for a liquid measured "
+                "by volume"),
     "ions": ("Ions", "Optional: particles per formula unit (van 't Hoff factor), e.g. 2 "
              "for NaCl"),
     "assay_%": ("Assay (%)", "Optional: purity of what is weighed"),
@@ -59,55 +63,123 @@ def clean_table(df: pd.DataFrame) -> pd.DataFrame:
     out = pd.DataFrame(index=range(len(df)))
     src = df.reset_index(drop=True)
     for c in EDITOR_COLUMNS:
-        out[c] = [_text(v) for v in src[c]] if c in src.columns else ""
+        out[c] = pd.Series([_text(v) for v in src[c]] if c in src.columns
+                           else [""] * len(src), index=out.index, dtype=object)
     return out
 
 
 def _to_editor(df: pd.DataFrame) -> tuple[pd.DataFrame, list[str]]:
-    """Map a table with its own header onto the editor's columns; notes on dropped ones."""
+    """Map a table with its own header onto the editor's columns by header name (any
+    language :func:`solutions.recipe.find_columns` knows); notes on the columns left out."""
     found = find_columns(df.columns)
     canon = {"molar_mass": "molar_mass", "assay": "assay_%"}
-    rename = {col: canon.get(k, k) for k, col in found.items()}
-    dropped = [str(c) for c in df.columns if c not in rename]
-    notes = [f"column(s) {', '.join(repr(c) for c in dropped)} not used"] if dropped else []
-    return clean_table(df.rename(columns=rename)), notes
+    rename = {col: canon.get(k, k) for k, col in found.items() if canon.get(k, k) in
+              EDITOR_COLUMNS}
+    dropped = [str(c) for c in df.columns if c not in rename and str(c).strip()]
+    notes = [f"column(s) {', '.join(repr(c[:40]) for c in dropped)} not used"] if dropped else []
+    missing = [c for c in ("ingredient", "amount") if c not in found]
+    if missing:
+        notes.append(f"no column headed {' or '.join(repr(m) for m in missing)} was found: "
+                     "name the columns in the first line (ingredient, amount, unit, and "
+                     "optionally formula, molar mass, density, ions, assay)")
+    out = clean_table(df.loc[:, list(rename)].rename(columns=rename))
+    if len(out) == 0:
+        notes.append("the block has a header line but no ingredient rows")
+        out = blank_table()
+    return out, notes
+
+
+def _looks_like_data(row: list[str]) -> bool:
+    """True when a first line reads as an ingredient row (its amount cell is a number or
+    a q.s./balance), not as a header."""
+    if len(row) < 2:
+        return False
+    a = row[1].strip().lower().replace(",", ".")
+    if a.startswith(("q.s", "qs", "balance", "bal")):
+        return True
+    try:
+        float(a)
+        return True
+    except ValueError:
+        return False
 
 
 def frame_from_text(text: str, *, decimal_comma: bool = False) -> tuple[pd.DataFrame, list[str]]:
     """Read a pasted block (tab-separated from a spreadsheet, or CSV) into the editor.
 
-    A first line naming the columns (ingredient, amount, unit, ...) is used as the header;
-    without one the columns are taken in the editor's order. With ``decimal_comma`` a
-    comma-separated block is read as semicolon-separated, as such spreadsheets export.
+    A first line naming the columns is used as the header, matched by name (common
+    synonyms, and German, French, Spanish, Italian, Dutch and Portuguese headers);
+    columns it does not know (supplier, lot…) are left out with a note. Without a header
+    the first three columns are ingredient, amount and unit; further columns are used
+    only when there are at most the editor's eight, else left out with a note asking
+    for a header. A first line that is neither a known header nor an ingredient row
+    gives an empty table and a note. With ``decimal_comma`` a comma-separated block is
+    read as semicolon-separated, as such spreadsheets export. Raises
+    :class:`~solutions.ui.safe.InputLimitError` beyond :data:`~solutions.ui.safe.MAX_ROWS`
+    rows or :data:`~solutions.ui.safe.MAX_CELL_CHARS` characters in a cell.
     """
     lines = [ln for ln in text.replace("\r\n", "\n").replace("\r", "\n").split("\n")
              if ln.strip() and not ln.lstrip().startswith("#")]
     if not lines:
         return blank_table(), ["nothing to read"]
+    check_text_limits("\n".join(lines))
     sample = lines[0]
     sep = "\t" if "\t" in sample else (";" if (";" in sample or decimal_comma) else ",")
     rows = list(csv.reader(io.StringIO("\n".join(lines)), delimiter=sep))
-    found = find_columns([c.strip() for c in rows[0]])
-    if "ingredient" in found and "amount" in found:
+    head = [c.strip() for c in rows[0]]
+    found = find_columns(head)
+    if found:
         width = len(rows[0])
-        body = [r + [""] * (width - len(r)) for r in rows[1:]]
-        return _to_editor(pd.DataFrame([r[:width] for r in body],
-                                       columns=[c.strip() for c in rows[0]]))
+        body = [(r + [""] * width)[:width] for r in rows[1:]]
+        return _to_editor(pd.DataFrame(body, columns=[h or f"column {i + 1}"
+                                                      for i, h in enumerate(head)]))
+    if not _looks_like_data(head):
+        return blank_table(), [
+            f"the first line ({', '.join(repr(h[:30]) for h in head[:4])}) is neither a "
+            "header the page knows nor an ingredient row: start the block with a line "
+            "naming the columns (ingredient, amount, unit, …) or with the first "
+            "ingredient"]
     notes = []
     width = len(EDITOR_COLUMNS)
-    if any(len(r) > width for r in rows):
-        notes.append(f"cells beyond the {width} recipe columns were left out")
+    most = max(len(r) for r in rows)
+    if most > width:
+        width = 3
+        notes.append(f"the block has {most} columns and no header line: only ingredient, "
+                     "amount and unit (the first three) were read; add a first line naming "
+                     "the columns to use the others")
     body = [(r + [""] * width)[:width] for r in rows]
-    return clean_table(pd.DataFrame(body, columns=EDITOR_COLUMNS)), notes
+    return clean_table(pd.DataFrame(body, columns=EDITOR_COLUMNS[:width])), notes
 
 
 def frame_from_upload(name: str, data: bytes, *, decimal_comma: bool = False
                       ) -> tuple[pd.DataFrame, list[str]]:
-    """Read an uploaded CSV/TSV/TXT or XLSX recipe file into the editor."""
-    if name.lower().endswith((".xlsx", ".xls")):
-        df = pd.read_excel(io.BytesIO(data), dtype=str).fillna("")
+    """Read an uploaded CSV/TSV/TXT or XLSX recipe file into the editor.
+
+    Raises :class:`~solutions.ui.safe.InputLimitError` for a file over
+    :func:`~solutions.ui.safe.max_upload_bytes` or a table over the row and cell limits,
+    and :class:`~solutions.errors.RecipeError` for a file that is not a readable
+    workbook or text (the message names no path)."""
+    limit = max_upload_bytes()
+    if len(data) > limit:
+        raise InputLimitError("the file", len(data), limit, "bytes")
+    if name.lower().endswith((".xlsx", ".xlsm")):
+        try:
+            df = pd.read_excel(io.BytesIO(data), dtype=str, engine="openpyxl").fillna("")
+        except Exception as exc:  # noqa: BLE001 - zip, XML and format errors alike
+            raise RecipeError("it is not a readable .xlsx workbook (save it from the "
+                              "spreadsheet as .xlsx, or as CSV)") from exc
+        check_table_limits(df, "the workbook")
+        if not len(df.columns) or not find_columns(df.columns):
+            raise RecipeError("its first sheet has no header line naming the columns "
+                              "(ingredient, amount, unit, …)")
         return _to_editor(df)
-    return frame_from_text(data.decode("utf-8-sig"), decimal_comma=decimal_comma)
+    if name.lower().endswith(".xls"):
+        raise RecipeError("old .xls workbooks are not read: save it as .xlsx or CSV")
+    try:
+        text = data.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise RecipeError("it is not UTF-8 text (save it as CSV UTF-8, or as .xlsx)") from exc
+    return frame_from_text(text, decimal_comma=decimal_comma)
 
 
 def demo_recipes(folder: str | Path) -> dict[str, Path]:
@@ -147,12 +219,33 @@ def composition_frame(d: dict, bases: list[str]) -> pd.DataFrame:
     return pd.DataFrame(rows, columns=["Ingredient", *(BASES[k] for k in bases)])
 
 
+def is_water(s: dict) -> bool:
+    """True when the solution's solvent is water (``solution.solvent`` of the result)."""
+    return str(s.get("solvent") or "water").strip().lower() == "water"
+
+
+def activity_label(s: dict) -> str:
+    """"Water activity", or the activity of the solution's own solvent."""
+    return "Water activity" if is_water(s) else f"Solvent activity ({s['solvent']})"
+
+
+def solvent_words(s: dict) -> dict[str, str]:
+    """Words that follow the solvent: ``solvent`` (its name, lower case), ``solid`` (what
+    freezes out) and ``crystal`` (the note on crystal water, empty for other solvents)."""
+    if is_water(s):
+        return {"solvent": "water", "solid": "ice", "crystal": ", crystal water included"}
+    name = str(s["solvent"]).lower()
+    return {"solvent": name, "solid": f"solid {name}", "crystal": ""}
+
+
 def property_frame(d: dict) -> pd.DataFrame:
     """Every solution property: value, unit, model, dilute-ideal figure, linked warnings."""
     s = d["solution"]
     links = warning_links(d)
     rows = []
     for key, label, unit in PROPERTY_LABELS:
+        if key == "water_activity":
+            label = activity_label(s)
         if key == "boiling_point_C":
             label = f"Boiling point at {s['pressure_kPa']:g} kPa"
         w = links.get(key, [])
@@ -174,6 +267,8 @@ def headline(d: dict) -> list[tuple[str, str, str]]:
     s = d["solution"]
     out = []
     for key, label, unit in HEADLINE:
+        if key == "water_activity":
+            label = activity_label(s)
         dil = dilute_text(s, key)
         helptext = f"Model: {property_model(s, key)}."
         if key == "boiling_point_C":

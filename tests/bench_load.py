@@ -1,0 +1,208 @@
+"""Load benchmark of the dashboard through its own websocket protocol (a script, not a test).
+
+    python tests/bench_load.py [--sessions 1 10 20] [--edits 5] [--timeout 60] [--warm]
+                               [--think SECONDS]
+
+Starts ``streamlit run streamlit_app.py`` on a free loopback port (127.0.0.1 only), then
+for each N opens N browser-like sessions on ``/_stcore/stream``: each sends the first
+run request a browser sends, waits for the page, then makes ``--edits`` edits of the
+solution temperature (a different value per session and edit, so every edit is a cache
+miss that re-evaluates the recipe and rebuilds the charts; with ``--warm`` all sessions
+alternate between two shared values, so the updates are cache hits and measure the rerun
+itself; with ``--think`` each session pauses, as a person reading the page would, before
+each edit). The edit-to-update latency
+is the time from sending the new widget value to the server's "script finished"
+message. Prints the median and 90th percentile per N and the server's resident memory.
+Every wait is bounded by ``--timeout`` seconds; the server is stopped by its pid.
+
+The messages are Streamlit's own protobufs (``BackMsg`` with a ``ClientState``,
+``ForwardMsg``), as the browser sends and receives them; nothing is rendered, so the
+figures are server time plus loopback transfer.
+"""
+from __future__ import annotations
+
+import argparse
+import asyncio
+import os
+import random
+import socket
+import statistics
+import subprocess
+import sys
+import time
+import urllib.request
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+TEMPERATURE_LABEL = "Solution temperature (°C)"
+
+
+def free_port() -> int:
+    with socket.socket() as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+def rss_mb(pid: int) -> float:
+    """Resident memory of process ``pid`` [MB] (Linux /proc)."""
+    for line in Path(f"/proc/{pid}/status").read_text().splitlines():
+        if line.startswith("VmRSS:"):
+            return int(line.split()[1]) / 1024
+    return float("nan")
+
+
+def start_server(port: int) -> subprocess.Popen:
+    cmd = [sys.executable, "-m", "streamlit", "run", str(ROOT / "streamlit_app.py"),
+           "--server.port", str(port), "--server.address", "127.0.0.1",
+           "--server.headless", "true", "--browser.gatherUsageStats", "false"]
+    proc = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.DEVNULL,
+                            stderr=subprocess.DEVNULL)
+    deadline = time.time() + 60
+    while time.time() < deadline:
+        try:
+            with urllib.request.urlopen(f"http://127.0.0.1:{port}/_stcore/health",
+                                        timeout=2) as r:
+                if r.status == 200:
+                    return proc
+        except OSError:
+            time.sleep(0.2)
+    proc.terminate()
+    raise SystemExit("the server did not answer its health check within 60 s")
+
+
+class Session:
+    """One browser-like session on the app's websocket."""
+
+    def __init__(self, port: int, timeout: float):
+        self.url = f"ws://127.0.0.1:{port}/_stcore/stream"
+        self.origin = f"http://127.0.0.1:{port}"
+        self.timeout = timeout
+        self.ws = None
+        self.widget_id: str | None = None
+        self.shown: list[str] = []
+
+    async def open(self):
+        import websockets
+        self.ws = await websockets.connect(self.url, subprotocols=["streamlit"],
+                                           origin=self.origin, max_size=2 ** 26,
+                                           open_timeout=self.timeout)
+
+    async def close(self):
+        if self.ws is not None:
+            await self.ws.close()
+
+    async def run(self, widget_value: float | None = None) -> float:
+        """Send a run request (with the temperature widget's new value, if given) and
+        wait for the script to finish; returns the seconds it took."""
+        from streamlit.proto.BackMsg_pb2 import BackMsg
+        from streamlit.proto.ForwardMsg_pb2 import ForwardMsg
+        msg = BackMsg()
+        cs = msg.rerun_script
+        cs.query_string = ""
+        cs.page_script_hash = ""
+        if widget_value is not None:
+            w = cs.widget_states.widgets.add()
+            w.id = self.widget_id
+            w.double_value = widget_value
+        t0 = time.perf_counter()
+        await self.ws.send(msg.SerializeToString())
+        deadline = t0 + self.timeout
+        while True:
+            left = deadline - time.perf_counter()
+            if left <= 0:
+                raise TimeoutError("no 'script finished' within the timeout")
+            raw = await asyncio.wait_for(self.ws.recv(), timeout=left)
+            fm = ForwardMsg()
+            fm.ParseFromString(raw)
+            kind = fm.WhichOneof("type")
+            if kind == "delta":
+                self._look(fm)
+            if kind == "script_finished":
+                return time.perf_counter() - t0
+
+    def _look(self, fm):
+        """Note the temperature box's widget id and the captions that name the
+        temperature the page was computed at."""
+        d = fm.delta
+        if d.WhichOneof("type") != "new_element":
+            return
+        el = d.new_element
+        if el.WhichOneof("type") == "number_input" and \
+                el.number_input.label == TEMPERATURE_LABEL:
+            self.widget_id = el.number_input.id
+        if el.WhichOneof("type") == "markdown" and " °C and " in el.markdown.body:
+            self.shown.append(el.markdown.body)
+
+
+async def drive(port: int, n: int, edits: int, timeout: float,
+                warm: bool = False, think: float = 0.0) -> tuple[list, list]:
+    sessions = [Session(port, timeout) for _ in range(n)]
+    await asyncio.gather(*(s.open() for s in sessions))
+    first = await asyncio.gather(*(s.run() for s in sessions))
+    if any(s.widget_id is None for s in sessions):
+        raise SystemExit("the temperature box was not found on the page")
+    lat: list[float] = []
+
+    async def editor(k: int, s: Session):
+        rng = random.Random(k)
+        for e in range(edits):
+            if think:   # a person reads the page before the next edit
+                await asyncio.sleep(rng.uniform(0.5, 1.5) * think)
+            T = (25.0 + e % 2 if warm else                    # shared values: cache hits
+                 round(20.0 + 0.37 * k + 1.13 * e + 0.01 * n, 2))  # new value: a miss
+            s.shown.clear()
+            lat.append(await s.run(T))
+            if not any(f" at {T:g} °C and " in b for b in s.shown):
+                raise SystemExit(f"the page did not update to {T:g} °C")
+
+    await asyncio.gather(*(editor(k, s) for k, s in enumerate(sessions)))
+    await asyncio.gather(*(s.close() for s in sessions))
+    return first, lat
+
+
+def pct(xs: list[float], q: float) -> float:
+    xs = sorted(xs)
+    return xs[min(len(xs) - 1, max(0, int(round(q * (len(xs) - 1)))))]
+
+
+def main(argv=None) -> int:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--sessions", type=int, nargs="+", default=[1, 10, 20])
+    ap.add_argument("--edits", type=int, default=5)
+    ap.add_argument("--timeout", type=float, default=60.0)
+    ap.add_argument("--think", type=float, default=0.0,
+                    help="mean seconds a session waits before each edit (0: edits back "
+                         "to back, the worst case)")
+    ap.add_argument("--warm", action="store_true",
+                    help="every session alternates between the same two temperatures, so "
+                         "after the first edits every update is a cache hit (the cost of "
+                         "a rerun itself)")
+    args = ap.parse_args(argv)
+    if max(args.sessions) > 50 or args.edits > 50:
+        raise SystemExit("at most 50 sessions and 50 edits per session")
+    port = free_port()
+    proc = start_server(port)
+    try:
+        print(f"server pid {proc.pid} on 127.0.0.1:{port}; {os.cpu_count()} CPU(s); "
+              f"think {args.think:g} s; "
+              f"{args.edits} edits per session of the solution temperature, "
+              + ("alternating between two values shared by all sessions (cache hits)"
+                 if args.warm else "each a new value (a cache miss)"))
+        print(f"{'N':>3} {'first page med (s)':>19} {'edit med (s)':>13} "
+              f"{'edit p90 (s)':>13} {'edits':>6} {'server RSS (MB)':>16}")
+        for n in args.sessions:
+            first, lat = asyncio.run(drive(port, n, args.edits, args.timeout, args.warm,
+                                           args.think))
+            print(f"{n:>3} {statistics.median(first):>19.2f} {statistics.median(lat):>13.2f} "
+                  f"{pct(lat, 0.9):>13.2f} {len(lat):>6} {rss_mb(proc.pid):>16.0f}")
+    finally:
+        proc.terminate()
+        try:
+            proc.wait(timeout=20)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
