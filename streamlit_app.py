@@ -25,10 +25,11 @@ S.keep_widget_values(st.session_state)
 
 guarded("conditions", render_sidebar)
 drawn = guarded("recipe", render_recipe)
+page = None
 if drawn is not None:
     key, page = drawn
     if guarded("results", render_results, key, page):
         guarded("charts", render_charts, key, page)
         guarded("design and batch", render_design, key, page)
         guarded("downloads", render_downloads, key, page)
-guarded("more tools", render_tools)
+guarded("more tools", render_tools, page)

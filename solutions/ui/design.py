@@ -82,6 +82,9 @@ TARGET_CHOICES: dict[str, TargetChoice] = {c[0]: TargetChoice(*c[1:]) for c in (
      "%.4f", "vapor_pressure_kPa"),
     ("density", "density", "Density at {T:g} °C", "g/mL", 1.05, 0.01, "%.4f",
      "density_g_per_mL"),
+    ("equilibrium_relative_humidity", "equilibrium_relative_humidity",
+     "Equilibrium relative humidity at {T:g} °C", "%", 90.0, 1.0, "%.2f",
+     "equilibrium_relative_humidity_percent"),
     ("concentration", "concentration", "Concentration of another ingredient", "", 1.0, 0.1,
      "%.4f", ""),
 )}

@@ -19,6 +19,7 @@ import pandas as pd
 from ..charts import COLORS
 from ..constants import T_ZERO_C
 from ..errors import SolutionsError
+from .safe import plain
 
 __all__ = ["GasInputs", "GasAnswer", "gas_answer", "dissolved_chart", "sealed_chart",
            "result_frame", "render_gas", "GAS_CHOICES", "MODES"]
@@ -261,17 +262,17 @@ def render_gas(st, recipe, *, key: str = "gas") -> GasAnswer | None:
     inp = GasInputs(gas=gas, T_C=T_C, mode=mode, sealed=sealed, ambient_kPa=ambient, **kw)
     ans = gas_answer(recipe, inp)
     if ans.error:
-        st.error(ans.error, icon=":material/error:")
+        st.error(plain(ans.error), icon=":material/error:")
         return ans
     d = ans.result
     st.table(result_frame(d), hide_index=True)
     if d["warnings"]:
         with st.container(border=True):
-            st.markdown("**⚠ Warnings**\n" + "".join(f"\n- {w}" for w in d["warnings"]))
+            st.markdown("**⚠ Warnings**\n" + "".join(f"\n- {plain(w)}" for w in d["warnings"]))
     for c in d["cautions"]:
-        st.warning(c, icon=":material/warning:")
+        st.warning(plain(c), icon=":material/warning:")
     for e in ans.chart_errors:
-        st.error(f"Chart not drawn: {e}", icon=":material/error:")
+        st.error(plain(f"Chart not drawn: {e}"), icon=":material/error:")
     cols = st.columns(2, gap="large") if ans.sealed is not None else [st]
     if ans.dissolved is not None:
         cols[0].altair_chart(dissolved_chart(ans.dissolved, d), theme=None,
@@ -282,5 +283,5 @@ def render_gas(st, recipe, *, key: str = "gas") -> GasAnswer | None:
     if ans.notes:
         with st.expander(f"Model notes along these curves ({len(ans.notes)})"):
             for n in ans.notes:
-                st.markdown(f"- {n}")
+                st.markdown(f"- {plain(n)}")
     return ans

@@ -15,6 +15,7 @@ import pandas as pd
 
 from ..errors import SolutionsError, TargetError
 from ..partition import DEFAULT_OIL, distribute, oil_relations, partition_data, phase_profile
+from .safe import plain
 
 __all__ = ["PartitionOutcome", "preservative_choices", "oil_choices", "partition_request",
            "profile_frame", "partition_chart", "render_partition", "PH_GRID", "PHASE_LABELS"]
@@ -133,7 +134,7 @@ def render_partition(st) -> None:
         binding=bind if use_bind else None,
         target_free_g_per_L=target * 10.0 if use_target else None)
     if out.error:
-        st.error(out.error + (f" (nearest reachable total: {out.nearest:.4g} g/L)"
+        st.error(plain(out.error) + (f" (nearest reachable total: {out.nearest:.4g} g/L)"
                               if out.nearest is not None else ""), icon=":material/error:")
         return
     d = out.result
@@ -154,9 +155,9 @@ def render_partition(st) -> None:
                f"({d['partition_coefficient_source']}); un-ionized fraction "
                f"{d['fraction_unionized']:.4g}; distribution ratio {d['distribution_ratio']:.4g}.")
     for w in d["warnings"]:
-        st.warning(w, icon=":material/warning:")
+        st.warning(plain(w), icon=":material/warning:")
     for c in d["cautions"]:
-        st.info(c, icon=":material/health_and_safety:")
+        st.info(plain(c), icon=":material/health_and_safety:")
     if out.profile is not None:
         st.altair_chart(partition_chart(out.profile, pH if use_pH else None), theme=None,
                         key="chart_partition")

@@ -361,9 +361,11 @@ TOOLS = [("Gas in solution", "gas", "render_gas"),
          ("Vapor-pressure fit", "vpfit", "render_vpfit")]
 
 
-def render_tools() -> None:
-    """One tab per tool module that imports; a tool that fails shows a plain message."""
+def render_tools(page: PageResult | None = None) -> None:
+    """One tab per tool module that imports; a tool that fails shows a plain message. A tool
+    that works on the recipe (its function takes ``recipe``) gets the page's recipe."""
     import importlib
+    import inspect
     found = []
     for title, mod, fn in TOOLS:
         try:
@@ -374,6 +376,10 @@ def render_tools() -> None:
         return
     st.divider()
     st.header("More tools")
+    recipe = page.read.recipe if page is not None and page.read is not None else None
     for tab, (title, fn) in zip(st.tabs([t for t, _ in found]), found):
         with tab:
-            guarded(title, fn, st)
+            if "recipe" in inspect.signature(fn).parameters:
+                guarded(title, fn, st, recipe)
+            else:
+                guarded(title, fn, st)

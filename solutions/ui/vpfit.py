@@ -16,6 +16,7 @@ import pandas as pd
 from ..constants import T_ZERO_C
 from ..errors import SolutionsError
 from ..vpfit import antoine_pressure, fit_vapor_pressure, read_vapor_pressure_table
+from .safe import plain
 
 __all__ = ["FitOutcome", "example_table", "fit_table", "cc_chart", "antoine_chart",
            "render_vpfit"]
@@ -112,7 +113,7 @@ def render_vpfit(st) -> None:
                            disabled=not use_p)
     out = fit_table(text, p_at if use_p else None)
     if out.error:
-        st.error(out.error, icon=":material/error:")
+        st.error(plain(out.error), icon=":material/error:")
         return
     d = out.result
     m = st.columns(3)
@@ -132,8 +133,8 @@ def render_vpfit(st) -> None:
                    f" valid {a['T_min_C']:.1f}…{a['T_max_C']:.1f} °C. 95 % interval of ΔH_vap "
                    f"{lo:.2f}…{hi:.2f} kJ/mol.")
     for w in d["warnings"]:
-        st.warning(w, icon=":material/warning:")
-    st.caption(d["notes"][0])
+        st.warning(plain(w), icon=":material/warning:")
+    st.caption(plain(d["notes"][0]))
     c1, c2 = st.columns(2)
     c1.altair_chart(cc_chart(d, out.points), theme=None, key="chart_vp_cc")
     ac = antoine_chart(d, out.points)
