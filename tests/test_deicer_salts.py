@@ -194,3 +194,19 @@ def test_freezing_point_falls_with_concentration(pct, step):
     a, b = freezing_C("potassium formate", pct), freezing_C("potassium formate", pct + step)
     assert b < a < 0.0
     assert b > -60.0
+
+
+@pytest.mark.parametrize("salt, fluid, ref", [
+    ("potassium formate", "MKF", {10: 1059.7, 20: 1122.0, 30: 1189.7, 40: 1261.9}),
+    ("potassium acetate (solid)", "MKA", {10: 1050.9, 20: 1101.3, 30: 1157.7, 40: 1215.0}),
+])
+def test_density_against_melinder(salt, fluid, ref):
+    """Densities at 20 °C (library: Laliberté 2009 apparent-volume model) against Melinder
+    (2010) as implemented by CoolProp's MKF/MKA, within 0.5 % (0.3 % seen): potassium formate
+    40 % 1261.9 kg/m³, potassium acetate 40 % 1215.0 kg/m³."""
+    CP = pytest.importorskip("CoolProp.CoolProp")
+    for pct, rho_ref in ref.items():
+        cp = CP.PropsSI("D", "T", 293.15, "P", 101325.0, f"INCOMP::{fluid}[{pct / 100}]")
+        assert cp == pytest.approx(rho_ref, abs=0.06)
+        rho = evaluate(recipe(salt, pct), T=293.15).rho
+        assert rho == pytest.approx(rho_ref, rel=0.005), (salt, pct)
