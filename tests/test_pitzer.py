@@ -296,7 +296,7 @@ def test_loader_keys_and_fields(salts):
         assert s.name == key
         assert s.b == 1.2
         assert s.nu_M * s.z_M + s.nu_X * s.z_X == 0
-        assert s.T_min < s.T_max and 200.0 <= s.T_min <= 298.15
+        assert s.T_min <= s.T_max and 200.0 <= s.T_min <= 298.15
         assert s.source
     assert salts["NaCl"].T_min == 213.15 and salts["NaCl"].T_max == 573.15
     assert load_pitzer_salts() is not load_pitzer_salts()  # callers get their own dict
