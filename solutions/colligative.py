@@ -31,8 +31,8 @@ from dataclasses import dataclass, field
 from functools import cache
 
 import numpy as np
-from scipy.optimize import elementwise
 
+from . import roots as elementwise  # numpy-only Chandrupatla: same call, same results
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
