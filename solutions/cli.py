@@ -422,7 +422,8 @@ def ingredient_text(r: dict) -> str:
     def line(label: str, value) -> str:
         return f"  {label:<16} {value}"
     particles = "particle" if r["ions"] == 1 else "particles"
-    out = [f"{r['name']}  (key {r['key']})",
+    mine = ", your library" if r["custom"] else ""
+    out = [f"{r['name']}  (key {r['key']}{mine})",
            line("formula", f"{r['formula'] or '-'}, {r['molar_mass_g_per_mol']:.3f} g/mol; "
                            f"{r['kind']}, {r['ions']:g} {particles} per formula unit")]
     if r["hydrate_water"] and r["solution_pct_w_w"] is None:

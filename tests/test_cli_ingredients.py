@@ -141,3 +141,12 @@ def test_cli_never_escapes_an_exception(text):
     """Any typed text gives exit 0 (matches) or 2 (none, or blank), never a crash."""
     with contextlib.redirect_stdout(io.StringIO()), contextlib.redirect_stderr(io.StringIO()):
         assert main(["ingredients", text]) in (0, 2)
+
+
+def test_user_library_entries_are_found_and_marked(tmp_path, capsys):
+    lib = tmp_path / "mine.csv"
+    lib.write_text("name,formula,synonyms,ions\nHarrowgate blue dye,C16H18ClN3S,hg blue,2\n",
+                   encoding="utf-8")
+    assert main(["ingredients", "HG-Blue", "--library", str(lib)]) == 0
+    out = capsys.readouterr().out
+    assert "Harrowgate blue dye" in out and "your library" in out
