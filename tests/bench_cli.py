@@ -59,8 +59,9 @@ def _profile(argv: list[str], top: int = 8) -> list[tuple[str, float]]:
         if not m:
             continue
         cum, depth, name = int(m[1]), len(m[2]), m[3]
-        if name.split(".")[0] in HEAVY and name.count(".") <= 1 and depth <= 12 or \
-                (name.startswith("solutions") and depth <= 2):
+        top_level = name.split(".")[0]
+        if (top_level in HEAVY and (name == top_level or top_level == "scipy")
+                and name.count(".") <= 1) or (top_level == "solutions" and depth <= 2):
             rows.append((name, cum / 1e3))
     best: dict[str, float] = {}
     for name, ms in rows:
