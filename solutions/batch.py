@@ -22,7 +22,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import brentq
 
 from .colligative import P_ATM
 from .composition import Composition
@@ -343,6 +342,8 @@ def dilution_plan(recipe: Recipe, ingredient: str, to_text: str, final_text: str
     if abs(target - c1) <= tol:
         alpha = 1.0
     else:
+        from scipy.optimize import brentq  # imported here: heavy, only this needs it
+
         def f(a):
             return _mix_concentration(stock, j, amount.basis, a, T_prep)[0] - target
         alpha, r = brentq(f, 0.0, 1.0, xtol=1e-15, rtol=1e-14, full_output=True)

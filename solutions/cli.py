@@ -7,7 +7,7 @@ target RECIPE        the amount of one ingredient that hits a property target
 scale RECIPE         weigh-out sheet for a batch
 dilute STOCK         how much stock and diluent make a target concentration
 gas RECIPE           dissolved gas: carbonation, dissolved oxygen, sealed headspace pressure
-ingredients          list the ingredient library
+ingredients [TEXT]   list the ingredient library, or search it and show what data it holds
 partition            where a preservative goes in an emulsion (oil, water, free un-ionized)
 fit-vapor-pressure   Clausius–Clapeyron and Antoine fits of measured vapor pressures
 
@@ -116,9 +116,13 @@ def build_parser() -> argparse.ArgumentParser:
                     help="the recipe writes decimals with a comma (0,9)")
     gs.add_argument("--json", action="store_true", help="print one JSON object")
 
-    ing = sub.add_parser("ingredients", help="list the ingredient library")
-    ing.add_argument("--library", default=None)
-    ing.add_argument("--json", action="store_true")
+    ing = sub.add_parser("ingredients", help="list or search the ingredient library")
+    ing.add_argument("text", nargs="?", default=None, metavar="TEXT",
+                     help="part of a name, synonym, key or formula (case, spaces and dashes "
+                          "ignored): shows each match with its forms and the data held for it")
+    ing.add_argument("--library", default=None, help="your own ingredient library CSV")
+    ing.add_argument("--json", action="store_true",
+                     help="print every field of every matching ingredient as JSON")
 
     pt = sub.add_parser("partition", help="preservative distribution between oil and water of "
                                           "an emulsion")
@@ -386,19 +390,76 @@ def cmd_ingredients(args) -> int:
     lib = default_library()
     if args.library:
         lib = lib.with_file(args.library)
-    rows = [{"name": i.name, "key": i.key, "formula": i.formula,
-             "molar_mass_g_per_mol": round(i.M * 1e3, 4), "ions": i.ions,
-             "hydrate_water": i.hydrate_water,
-             "density_g_per_mL": None if i.rho_pure is None else i.rho_pure / 1e3,
-             "synonyms": list(i.synonyms)} for i in lib]
+    text = args.text
+    if text is not None and not text.strip():
+        raise OptionError("TEXT", text, "give part of a name, synonym, key or formula")
+    if text is None and not args.json:
+        rows = list(lib)
+        w = max(len(i.name) for i in rows)
+        for i in rows:
+            print(f"{i.name:<{w}}  {i.formula or '-':<18} {i.M * 1e3:>9.3f} g/mol"
+                  f"  ions {i.ions:g}")
+        return 0
+    from .catalog import close_names, find_ingredients, ingredient_record
+    hits = list(lib) if text is None else find_ingredients(lib, text)
+    if not hits:
+        close = close_names(lib, text)
+        hint = (f"; close names: {', '.join(close)}" if close else
+                "; 'python -m solutions ingredients' lists the whole library")
+        print(f"error: no ingredient matches {text!r} (key, name, synonym or formula){hint}",
+              file=sys.stderr)
+        return EXIT_INPUT
+    recs = [ingredient_record(i, lib) for i in hits]
     if args.json:
-        print(dumps(rows))
+        print(dumps(recs))
     else:
-        w = max(len(r["name"]) for r in rows)
-        for r in rows:
-            print(f"{r['name']:<{w}}  {r['formula'] or '-':<18} {r['molar_mass_g_per_mol']:>9.3f} g/mol"
-                  f"  ions {r['ions']:g}")
+        print("\n\n".join(ingredient_text(r) for r in recs))
     return 0
+
+
+def ingredient_text(r: dict) -> str:
+    """A plain-text block for one record of :func:`solutions.catalog.ingredient_record`."""
+    def line(label: str, value) -> str:
+        return f"  {label:<16} {value}"
+    particles = "particle" if r["ions"] == 1 else "particles"
+    mine = ", your library" if r["custom"] else ""
+    out = [f"{r['name']}  (key {r['key']}{mine})",
+           line("formula", f"{r['formula'] or '-'}, {r['molar_mass_g_per_mol']:.3f} g/mol; "
+                           f"{r['kind']}, {r['ions']:g} {particles} per formula unit")]
+    if r["hydrate_water"] and r["solution_pct_w_w"] is None:
+        out.append(line("crystal water", f"{r['hydrate_water']:g} H2O per formula unit"))
+    if r["solution_pct_w_w"] is not None:
+        out.append(line("stock solution", f"{r['solution_pct_w_w']:g} % w/w in water"))
+    if r["density_g_per_mL"] is not None:
+        out.append(line("pure density", f"{r['density_g_per_mL']:g} g/mL at 20 °C"))
+    if r["forms"]:
+        out.append(line("other forms", "; ".join(f"{f['name']} ({f['key']}), "
+                                                 f"{f['molar_mass_g_per_mol']:.2f} g/mol"
+                                                 for f in r["forms"])))
+    if r["synonyms"]:
+        out.append(line("synonyms", ", ".join(r["synonyms"])))
+    out.append(line("activity model", r["activity_model"]))
+    out.append(line("density data", r["density_data"]))
+    out.append(line("vapor pressure", "pure-liquid equation" if r["vapor_pressure"]
+                    else "no data (treated as non-volatile)"))
+    s = r["solubility"]
+    out.append(line("solubility", "no data" if s is None else
+                    f"{s['g_per_100g_water_at_25C']:.4g} g {r['solute']} per 100 g water at 25 °C"
+                    f" (data {s['T_min_C']:g}–{s['T_max_C']:g} °C"
+                    f"{', extrapolated' if s['extrapolated'] else ''})"))
+    e = r["eutectic"]
+    out.append(line("eutectic", "no data" if e is None else
+                    f"{e['T_C']:g} °C at {e['mass_pct']:g} % w/w"))
+    out.append(line("E-value", "no data" if r["E_value"] is None else f"{r['E_value']:.3g}"))
+    if r["partition_data"]:
+        out.append(line("partition", "log K_ow " + ("no data" if r["log_Kow"] is None else
+                                                    f"{r['log_Kow']:g}")
+                        + ", pKa " + ("none" if r["pKa"] is None else f"{r['pKa']:g}")))
+    else:
+        out.append(line("partition", "no data"))
+    if r["caution"]:
+        out.append(line("caution", r["caution"]))
+    return "\n".join(out)
 
 
 def _mass_per_volume(text: str, option: str) -> float:

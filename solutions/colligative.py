@@ -21,7 +21,7 @@ pure water and ice coexist at the triple point (273.16 K); the freezing point at
 101.325 kPa is reported as 273.15 K − ΔT_f, which removes the 0.01 K offset of the
 pressure (common practice for solution freezing points).
 
-All root finding is vectorized (``scipy.optimize.elementwise.find_root``), so a sweep of
+All root finding is vectorized (``solutions.roots.find_root``, Chandrupatla 1997, numpy only), so a sweep of
 many compositions is one call.
 """
 from __future__ import annotations
@@ -31,8 +31,8 @@ from dataclasses import dataclass, field
 from functools import cache
 
 import numpy as np
-from scipy.optimize import elementwise
 
+from . import roots as elementwise  # numpy-only Chandrupatla: same call, same results
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE

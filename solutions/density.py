@@ -54,8 +54,8 @@ from functools import cache
 from importlib import resources
 
 import numpy as np
-import pandas as pd
 
+from ._csvtable import read_rows
 from .composition import Composition
 from .errors import Caveat, DataError, IngredientError, OutOfRangeError
 from .water import saturation_pressure, water_density
@@ -81,8 +81,7 @@ _ANALOGUES = {
 def density_table() -> dict[str, dict]:
     """Rows of density_apparent.csv keyed by solute key (loaded once)."""
     path = resources.files("solutions.data") / "density_apparent.csv"
-    df = pd.read_csv(str(path))
-    return {r["solute"]: r for r in df.to_dict("records")}
+    return {r["solute"]: r for r in read_rows(path)}
 
 
 def apparent_density(row: dict, w_s, T):
@@ -123,8 +122,7 @@ def _coef_or_zero(value) -> float:
 @cache
 def _liquid_table() -> dict[str, dict]:
     path = resources.files("solutions.data") / "liquid_density.csv"
-    df = pd.read_csv(str(path), dtype={"source": str})
-    return {r["key"]: r for r in df.to_dict("records")}
+    return {r["key"]: r for r in read_rows(path, as_text=("source",))}
 
 
 def liquid_density_keys() -> tuple[str, ...]:
@@ -187,9 +185,8 @@ def pure_liquid_density(T, key: str):
 @cache
 def _correlations() -> dict[str, dict]:
     path = resources.files("solutions.data") / "density_correlations.csv"
-    df = pd.read_csv(str(path))
     out: dict[str, dict] = {}
-    for r in df.to_dict("records"):
+    for r in read_rows(path):
         key = (r["kind"], int(r["i"]), int(r["j"]))
         out.setdefault(r["correlation"], {})[key] = float(r["value"])
     return out

@@ -32,8 +32,7 @@ from importlib import resources
 from pathlib import Path
 from typing import Iterable, Mapping
 
-import pandas as pd
-
+from ._csvtable import read_rows
 from .errors import Caveat, IngredientError
 
 __all__ = ["Ingredient", "Library", "default_library", "molar_mass_from_formula", "M_WATER",
@@ -120,10 +119,9 @@ class _Ion:
 def _ion_table() -> tuple[_Ion, ...]:
     """The ions of ``data/ions.csv`` with their element counts."""
     path = resources.files("solutions.data") / "ions.csv"
-    df = pd.read_csv(str(path), dtype=str, keep_default_na=False)
     return tuple(_Ion(r["ion"], r["role"], tuple(sorted(_composition(r["formula"]).items())),
                       int(r["charge"]), r["strong_acid_anion"].strip().lower() == "yes")
-                 for r in df.to_dict("records"))
+                 for r in read_rows(path, text=True))
 
 
 def _composition(formula: str) -> dict[str, int]:
@@ -461,6 +459,8 @@ class Library:
 
 def read_library_file(path: str | Path) -> list[Ingredient]:
     """Read a library CSV; a bad row raises :class:`IngredientError` naming the row."""
+    import pandas as pd  # a user's file may be written loosely: the full CSV reader
+
     try:
         df = pd.read_csv(path, dtype=str, keep_default_na=False, comment="#")
     except FileNotFoundError:
@@ -480,6 +480,8 @@ def read_library_file(path: str | Path) -> list[Ingredient]:
 
 def write_library_file(path: str | Path, ingredients: Iterable[Ingredient]) -> None:
     """Append/replace user ingredients in a library CSV (used by the dashboard's form)."""
+    import pandas as pd
+
     path = Path(path)
     rows = {}
     if path.exists():
@@ -501,9 +503,8 @@ def write_library_file(path: str | Path, ingredients: Iterable[Ingredient]) -> N
 def default_library() -> Library:
     """The built-in library, loaded once."""
     path = resources.files("solutions.data") / "ingredients.csv"
-    df = pd.read_csv(str(path), dtype=str, keep_default_na=False)
     return Library(ingredient_from_record(rec, where=f"ingredients.csv row {i}")
-                   for i, rec in enumerate(df.to_dict("records"), start=2))
+                   for i, rec in enumerate(read_rows(path, text=True), start=2))
 
 
 def acid_base_caveats(ingredients: Iterable[Ingredient]) -> list[Caveat]:

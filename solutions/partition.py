@@ -51,7 +51,6 @@ from functools import cache
 from importlib import resources
 
 import numpy as np
-from scipy.special import expit
 
 from .errors import Caveat, OutOfRangeError, SolutionsError, TargetError, merge_caveats
 
@@ -231,6 +230,8 @@ def fraction_unionized(pH, pKa, kind: str = "acid"):
         return np.ones_like(np.asarray(pH if pH is not None else 1.0, dtype=float))
     pH = np.asarray(pH, dtype=float)
     e = (pH - pKa) if kind == "acid" else (pKa - pH)
+    from scipy.special import expit  # imported here: heavy, and only this needs it
+
     # 1/(1+10^e) as a logistic function: no overflow, and the small tail keeps its digits
     return expit(-math.log(10.0) * e)
 

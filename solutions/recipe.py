@@ -21,13 +21,13 @@ import csv
 import io
 import math
 import re
+import sys
 import unicodedata
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import Iterable
+from typing import TYPE_CHECKING, Iterable
 
 import numpy as np
-import pandas as pd
 
 from .composition import Composition
 from .density import solution_density
@@ -35,6 +35,9 @@ from .errors import Caveat, IngredientError, NumberError, RecipeError, UnitParse
 from .ingredients import Ingredient, Library, default_library, ingredient_from_record
 from .units import Amount, Basis, is_solvent_rule, parse_unit, read_number
 from .water import water_density
+
+if TYPE_CHECKING:  # pandas is imported only where a workbook or DataFrame is read
+    import pandas as pd
 
 __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
            "find_columns", "parse_batch", "read_workbook", "parse_quantity", "find_row",
@@ -161,7 +164,25 @@ def _is_comment(line: str) -> bool:
     return line.lstrip().startswith("#")
 
 
-def _read_text(text: str, decimal: str) -> pd.DataFrame:
+class _TextTable:
+    """The cells of a recipe read from text: header, row numbers and one dict per row (the
+    three things :func:`read_recipe` asks of a table; no data-frame library needed)."""
+
+    def __init__(self, columns: list[str], records: list[list[str]], rows: list[int]):
+        self.columns = list(columns)
+        self.index = list(rows)
+        self._records = [dict(zip(self.columns, r)) for r in records]
+
+    def __len__(self) -> int:
+        return len(self._records)
+
+    def to_dict(self, orient: str = "records") -> list[dict]:
+        if orient != "records":
+            raise ValueError(f"only 'records' is supported, got {orient!r}")
+        return [dict(r) for r in self._records]
+
+
+def _read_text(text: str, decimal: str) -> _TextTable:
     """A recipe table from CSV/TSV text. The delimiter is read from the header line alone (tab,
     else ';', else ','); lines starting with '#' are comments and blank lines are skipped, but both
     keep their place in the row count, so 'row N' is the N-th line under the header."""
@@ -192,13 +213,12 @@ def _read_text(text: str, decimal: str) -> pd.DataFrame:
         fields = (fields + [""] * len(cols))[:len(cols)]
         records.append(fields)
         rows.append(k)
-    df = pd.DataFrame(records, columns=cols, dtype=object)
-    df.index = rows
-    return df
+    return _TextTable(cols, records, rows)
 
 
-def _table(source, decimal: str) -> pd.DataFrame:
-    if isinstance(source, pd.DataFrame):
+def _table(source, decimal: str):
+    pd = sys.modules.get("pandas")  # a DataFrame can only come from an imported pandas
+    if pd is not None and isinstance(source, pd.DataFrame):
         df = source.astype(object).where(source.notna(), "")
         df.index = range(1, len(df) + 1)
         return df
@@ -220,9 +240,11 @@ def _table(source, decimal: str) -> pd.DataFrame:
     raise RecipeError(f"cannot read a recipe from a {type(source).__name__}")
 
 
-def read_workbook(data: bytes, name: str = "recipe.xlsx") -> pd.DataFrame:
+def read_workbook(data: bytes, name: str = "recipe.xlsx") -> "pd.DataFrame":
     """The first sheet of an .xlsx workbook as a table of text cells, rows numbered from 1
     under the header; a file that is not a workbook is refused with a clear message."""
+    import pandas as pd
+
     try:
         df = pd.read_excel(io.BytesIO(data), dtype=str, engine="openpyxl")
     except Exception:  # openpyxl raises many kinds for a file that is not a workbook

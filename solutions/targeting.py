@@ -43,7 +43,6 @@ from dataclasses import dataclass, field, replace
 from typing import Callable
 
 import numpy as np
-from scipy.optimize import brentq
 
 from .colligative import P_ATM, colligative
 from .density import solution_density
@@ -606,6 +605,8 @@ class _Solver:
         self._unreachable(visited, limit)
 
     def _brentq(self, a: float, b: float) -> float:
+        from scipy.optimize import brentq  # imported here: heavy, only the solve needs it
+
         x, r = brentq(self.f, a, b, xtol=max(abs(b), 1e-300) * 1e-14, rtol=1e-13,
                       maxiter=200, full_output=True)
         self.iterations = r.iterations

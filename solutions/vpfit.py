@@ -34,7 +34,6 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
-from scipy import optimize, stats
 
 from .constants import P_ATM, R, T_TRIPLE, T_ZERO_C
 from .errors import Caveat, NumberError, SolutionsError, UnitParseError, merge_caveats
@@ -252,6 +251,8 @@ def clausius_clapeyron_fit(T, P) -> CCFit:
     se = np.sqrt(np.diag(XtX_inv) * s2)
     lev = np.einsum("ij,jk,ik->i", X, XtX_inv, X)
     dH, dH_se = -coef[1] * R, se[1] * R
+    from scipy import stats  # imported here: heavy, only the fits need it
+
     tq = stats.t.ppf(0.975, dof)
     return CCFit(slope=float(coef[1]), intercept=float(coef[0]), slope_se=float(se[1]),
                  intercept_se=float(se[0]), dH=float(dH), dH_se=float(dH_se),
@@ -338,6 +339,8 @@ def antoine_fit(T, P) -> AntoineFit:
     vals = np.array([sse(c) for c in grid])
     k = int(np.argmin(vals))
     a, b = grid[max(k - 1, 0)], grid[min(k + 1, grid.size - 1)]
+    from scipy import optimize  # imported here: heavy, only the fits need it
+
     Cbest = optimize.minimize_scalar(sse, bounds=(a, b), method="bounded",
                                      options={"xatol": 1e-10 * max(abs(b), 1.0)}).x
     A0, B0, _ = _linear_AB(t, y, Cbest)

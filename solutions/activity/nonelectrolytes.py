@@ -24,8 +24,8 @@ from functools import cache
 from importlib import resources
 
 import numpy as np
-import pandas as pd
 
+from .._csvtable import read_rows
 from ..errors import Caveat
 from ..ingredients import M_WATER
 
@@ -46,9 +46,8 @@ class NorrishSolute:
 @cache
 def load_nonelectrolytes() -> dict[str, NorrishSolute]:
     path = resources.files("solutions.data") / "nonelectrolyte_activity.csv"
-    df = pd.read_csv(str(path))
     out = {}
-    for r in df.to_dict("records"):
+    for r in read_rows(path):
         out[r["solute"]] = NorrishSolute(
             r["solute"], tuple(float(r[f"K{k}"]) for k in range(1, 6)), float(r["b_max"]),
             float(r["w_max"]), float(r["T_min_C"]) + 273.15, float(r["T_max_C"]) + 273.15,

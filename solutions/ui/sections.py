@@ -22,7 +22,6 @@ import streamlit as st
 from .. import __version__
 from ..charts import Curve
 from ..report import html_report, json_text, property_text, summary_csv
-from . import design as D
 from . import state as S
 from .compute import (CAPTIONS, PageResult, below_freezing, chart_curves, chart_specs,
                       evaluate_table, report_charts, report_dict)
