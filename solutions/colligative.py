@@ -384,10 +384,11 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             f"vapor pressure ({p_liq[i] / 1e3:.4g} kPa) builds up — use a rated pressure vessel",
             None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
     far, cav = beyond_data(terms, bs)
-    impossible = ~np.isfinite(ln_a) | ((ln_a >= 0.0) & (comp.particle_molality() > 0))
+    # a_w above 1 cannot exist with solutes present (a_w = 1 to rounding is a trace of solute)
+    impossible = ~np.isfinite(ln_a) | ((ln_a > 0.0) & (comp.particle_molality() > 0))
     if np.any(impossible & ~far):
         caveats.append(Caveat(
-            "beyond-data", "the activity model gives a water activity of 1 or more for a "
+            "beyond-data", "the activity model gives a water activity above 1 for a "
             "solution with solutes, which cannot exist: activity-derived results are not "
             "reported", None))
     withheld = far | impossible
