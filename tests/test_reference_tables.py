@@ -78,10 +78,10 @@ WITHHELD = {"magnesium chloride", "potassium carbonate"}   # past their Pitzer d
 @pytest.mark.parametrize("row", list(SATURATED.itertuples()), ids=lambda r: r.solute)
 def test_water_activity_of_saturated_salts(row):
     """water_activity.csv: relative humidity over saturated salt solutions at 25 °C,
-    Greenspan (1977) J. Res. NBS 81A, 89, Table 2 (NaCl 0.753, KCl 0.843, K2SO4 0.973),
-    at the CRC solubility of each salt (solutions/data/solubility.csv): within 0.004 (the
-    table's 3 decimals plus Greenspan's stated uncertainty of up to 0.45 % RH). The
-    dilute-ideal a_w of saturated NaCl is 0.80 and fails. MgCl2 and K2CO3 saturate past
+    Greenspan (1977) J. Res. NBS 81A, 89 (NaCl 0.753, KCl 0.843, K2SO4 0.973, rounded to
+    0.1 % RH as reproduced in the file's source), at the CRC solubility of each salt
+    (solutions/data/solubility.csv): within 0.004 (the rounding plus Greenspan's stated
+    uncertainties, a few tenths of a % RH, from memory). The dilute-ideal a_w of saturated NaCl is 0.80 and fails. MgCl2 and K2CO3 saturate past
     their Pitzer data: the model withholds a_w (NaN) and says why, never a silent number.
     LiCl and NaBr are not library ingredients."""
     if row.solute in NOT_IN_LIBRARY:
