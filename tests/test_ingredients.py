@@ -367,3 +367,26 @@ def test_recipe_row_with_formula_only():
     with pytest.raises(RecipeError, match="'ions' column"):
         read_recipe("ingredient,amount,unit,formula\nhouse zinc salt,0.1,g,ZnCl2\n"
                     "water,100,g,\n")
+
+
+# Rows whose formula column was mis-transcribed into solutions/data/tables (the printed molar
+# masses are right): citric acid is HOC(COOH)(CH2COOH)2 = C6H8O7, not C(OH)(COOH)3 = C4H4O7;
+# mannitol is HOCH2(CHOH)4CH2OH = C6H14O6, the leading "HO" is missing. Strict: when the
+# table is corrected these cases pass and the mark must go.
+_CRC_FORMULA_TYPOS = {"Citric acid", "D-Mannitol"}
+
+
+def _crc_formula_rows():
+    tabs = pd.concat([pd.read_csv(p) for p in
+                      __import__("pathlib").Path("solutions/data/tables").glob("crc_aqueous_20C_*.csv")])
+    rows = tabs[["solute", "formula", "molar_mass_g_per_mol"]].drop_duplicates()
+    return [pytest.param(*r, id=r[0], marks=[pytest.mark.xfail(
+        strict=True, reason="formula column mis-transcribed")] if r[0] in _CRC_FORMULA_TYPOS
+        else []) for r in rows.itertuples(index=False)]
+
+
+@pytest.mark.parametrize("solute, formula, M", _crc_formula_rows())
+def test_crc_table_formulas_give_their_printed_molar_mass(solute, formula, M):
+    """CRC Handbook 102nd ed. 'Concentrative Properties of Aqueous Solutions': each row's
+    formula, as stored, gives the Mol. wt. printed beside it to 0.002 g/mol."""
+    assert molar_mass_from_formula(formula.replace("·", ".")) * 1e3 == pytest.approx(M, abs=0.002)
