@@ -162,8 +162,12 @@ def pure_liquid_density(T, key: str):
 
     Raises :class:`~solutions.errors.OutOfRangeError` outside the equation's range.
 
-    >>> round(float(pure_liquid_density(293.15, "ethylene glycol")), 1)  # CRC: 1113.5
-    1113.7
+    Ethylene glycol at 20 °C: 1113.5 kg/m³ (CRC Handbook, Physical Constants of Organic
+    Compounds, 1.1135 g/cm³), within 0.5 kg/m³:
+
+    >>> rho = float(pure_liquid_density(293.15, "ethylene glycol"))
+    >>> bool(abs(rho - 1113.5) < 0.5), round(rho, 1)
+    (True, 1113.7)
     """
     r = _liquid_row(key)
     T = np.asarray(T, dtype=float)
@@ -203,7 +207,9 @@ def ethanol_water_density(w, T):
     Valid for 0 ≤ p ≤ 1 and −20 to +40 °C (the standard's range); the function evaluates
     the polynomial anywhere, range checks are the caller's (``solution_density`` warns).
 
-    >>> round(float(ethanol_water_density(0.5, 293.15)), 2)   # OIML Table I: 913.77
+    OIML R 22 Table I, 50 % ethanol by mass at 20 °C: 913.77 kg/m³.
+
+    >>> round(float(ethanol_water_density(0.5, 293.15)), 2)
     913.77
     """
     c = _correlations()["oiml_ethanol"]
@@ -224,8 +230,11 @@ def glycol_water_density(w, T, key: str):
     Valid 0 ≤ w ≤ 0.6, from the freezing point to 100 °C (limits of the Modelica
     IBPSA/Buildings media that distribute the coefficients).
 
-    >>> round(float(glycol_water_density(0.4, 293.15, "propylene glycol")), 1)
-    1032.3
+    Propylene glycol 40 % w/w at 20 °C: 1.032 g/mL (Melinder 2010 tables), within 1 kg/m³:
+
+    >>> rho = float(glycol_water_density(0.4, 293.15, "propylene glycol"))
+    >>> bool(abs(rho - 1032.0) < 1.0), round(rho, 1)
+    (True, 1032.3)
     """
     name = "melinder_" + key.replace(" ", "_")
     if name not in _correlations():
@@ -248,8 +257,13 @@ def glycerol_water_density(w, T):
     rho_w = 1000 (1 − |(t − 3.98)/615|^1.71), κ = 1 + A sin(w^1.31 π)^0.81,
     A = 1.78e-6 t² − 1.82e-4 t + 1.41e-2, t in °C. Fitted 15–30 °C, 0 ≤ w ≤ 1.
 
-    >>> round(float(glycerol_water_density(0.5, 293.15)), 1)   # CRC 48 / 52 %: 1120.0 / 1130.8
-    1126.1
+    Glycerol 50 % w/w at 20 °C against the CRC Handbook 102nd ed. 'Concentrative
+    Properties of Aqueous Solutions' rows for 48 % and 52 % (1.1200 and 1.1308 g/cm³),
+    interpolated to 1125.4 kg/m³, within 1 kg/m³:
+
+    >>> rho = float(glycerol_water_density(0.5, 293.15))
+    >>> bool(abs(rho - (1120.0 + 1130.8) / 2) < 1.0), round(rho, 1)
+    (True, 1126.1)
     """
     c = {k[0]: v for k, v in _correlations()["volk_glycerol"].items()}
     w = np.asarray(w, dtype=float)

@@ -234,6 +234,15 @@ def antoine_vapor_pressure(T, solvent: str, *, extrapolate: bool = False):
     ----------
     NIST Chemistry WebBook, NIST Standard Reference Database 69, "Phase change
     data" of each compound; original references in the data file.
+
+    Examples
+    --------
+    Ethanol at its normal boiling point, 351.39 K (CRC Handbook, Physical Constants of
+    Organic Compounds), boils at 101.325 kPa: within 0.5 %.
+
+    >>> P = antoine_vapor_pressure(351.39, "ethanol")
+    >>> bool(abs(P / 101325.0 - 1) < 0.005)
+    True
     """
     rows = antoine_coefficients(solvent)
     name = rows[0].solvent
@@ -314,6 +323,14 @@ def antoine_boiling_temperature(P, solvent: str, *, extrapolate: bool = False):
     --------
     T/K = B / (A - log10(P/bar)) - C, from the row whose pressure range
     [P(Tmin), P(Tmax)] contains P (Antoine P(T) is increasing in T).
+
+    Examples
+    --------
+    2-Propanol boils at 355.36 K at 101.325 kPa (CRC Handbook, Physical Constants of
+    Organic Compounds): within 0.3 K.
+
+    >>> bool(abs(antoine_boiling_temperature(101325.0, "2-propanol") - 355.36) < 0.3)
+    True
     """
     rows = antoine_coefficients(solvent)
     name = rows[0].solvent
@@ -365,6 +382,20 @@ def solvent_constants(name: str) -> SolventConstants:
     ------
     IngredientError
         For an unknown name (a KeyError), with close matches suggested.
+
+    Examples
+    --------
+    The CRC Handbook cryoscopic and ebullioscopic constants of water, 1.86 and
+    0.513 K kg/mol, follow from the tabulated melting and boiling points and
+    enthalpies, K = R T^2 M / Delta H:
+
+    >>> from solutions.colligative import R
+    >>> w = solvent_constants("water")
+    >>> K_f = R * w.melting_point_K**2 * w.molar_mass_kg_per_mol / w.enthalpy_of_fusion_J_per_mol
+    >>> K_b = (R * w.normal_boiling_point_K**2 * w.molar_mass_kg_per_mol
+    ...        / w.enthalpy_of_vaporization_J_per_mol)
+    >>> round(K_f, 2), round(K_b, 3)
+    (1.86, 0.513)
     """
     table = _constants_table()
     key = _normalise(name)
@@ -512,10 +543,12 @@ def pure_vapor_pressure(T, key: str, *, extrapolate: bool = False):
 
     Examples
     --------
-    Ethanol at its NIST normal boiling point (351.44 K) boils at about one atmosphere:
+    Ethanol at its NIST normal boiling point (351.44 K) boils at one atmosphere,
+    101.325 kPa, within 0.5 %:
 
-    >>> round(pure_vapor_pressure(351.44, "ethanol") / 1000, 1)
-    101.2
+    >>> P = pure_vapor_pressure(351.44, "ethanol")
+    >>> bool(abs(P / 101325.0 - 1) < 0.005), round(P / 1000, 1)
+    (True, 101.2)
     """
     T = np.asarray(T, dtype=float)
     lo, hi = pure_vapor_pressure_range(key)

@@ -142,7 +142,8 @@ def test_vapor_pressure_facts():
 def test_osmotic_pressure_van_t_hoff_limit():
     """Dilute limit: Π ≈ c R T (van 't Hoff, textbook); 0.01 mol/kg sucrose at 25 °C ≈ 24.7 kPa."""
     res = colligative(Composition.from_molalities((LIB.get("sucrose"),), [[0.01]], WATER), 298.15)
-    assert res.osmotic_pressure[0] / 1e3 == pytest.approx(0.01 * 0.997 * R * 298.15, rel=0.01)
+    assert 0.01 * 0.997 * R * 298.15 == pytest.approx(24.7, abs=0.05)   # c R T [mol/L → kPa]
+    assert res.osmotic_pressure[0] / 1e3 == pytest.approx(24.7, rel=0.01)
 
 
 def test_ideal_model_is_raoult():
@@ -213,12 +214,22 @@ def test_solubility_is_flagged():
 def test_above_boiling_point_warns_about_pressure():
     """Above its boiling point the solution boils; a closed vessel builds up its vapor
     pressure: a_w · p*(150 °C), p* = 476.16 kPa (steam tables, IAPWS-95; from memory), which
-    IF97 meets within its stated 0.02 %."""
+    IF97 meets within its stated 0.02 %.
+
+    The pressure in the caution must be the published p*(150 °C) times the solution's water
+    activity at 150 °C, to 0.02 %: a caution built from p* at 25 °C, from the external
+    pressure, or without a_w fails (a bare "< 476.16 kPa" bound would pass all but the last).
+    a_w itself is the model's (checked against published data at 25 °C elsewhere); here it
+    only has to be a water activity of this solution, between the dilute-ideal value for
+    1.90 mol/kg with φ = 1 (0.934) and 1."""
     res = colligative(binary("NaCl", [0.1]), 423.15)
     cav = [c for c in res.caveats if c.kind == "boiling"]
     assert cav and "rated pressure vessel" in cav[0].message
     assert saturation_pressure(423.15) / 1e3 == pytest.approx(476.16, rel=2e-4)
-    assert cav[0].extra["vapor_pressure_kPa"] < 476.16
+    a_w = float(res.water_activity[0])
+    assert 0.934 < a_w < 1.0
+    assert cav[0].extra["vapor_pressure_kPa"] == pytest.approx(a_w * 476.16, rel=2e-4)
+    assert f"({cav[0].extra['vapor_pressure_kPa']:.1f} kPa)" in cav[0].message
 
 
 @pytest.mark.parametrize("solute, name", [

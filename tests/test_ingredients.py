@@ -40,18 +40,53 @@ def test_molar_masses_match_handbook(formula, crc):
     assert molar_mass_from_formula(formula) * 1e3 == pytest.approx(crc, abs=0.0015)
 
 
-def test_crc_molar_masses_of_every_tabulated_solute():
-    """Every formula we can read in the CRC tables gives its listed molar mass (±0.01 g/mol)."""
+# CRC solute name (as printed in solutions/data/tables/crc_aqueous_20C_*.csv) -> library key.
+# Matched by name, never by a similar mass: a wrong formula in the library must fail.
+CRC_SOLUTE_KEYS = {
+    "Acetic acid": "acetic_acid", "Acetone": "acetone", "Citric acid": "citric_acid_anhydrous",
+    "1,2-Ethanediol": "ethylene_glycol", "Ethanol": "ethanol", "D-Fructose": "fructose",
+    "D-Glucose": "glucose_anhydrous", "Glycerol": "glycerol", "D-Lactic acid": "lactic_acid",
+    "D-Lactose": "lactose_anhydrous", "Maltose": "maltose_anhydrous", "D-Mannitol": "mannitol",
+    "Methanol": "methanol", "2-Propanol": "isopropanol", "Sucrose": "sucrose",
+    "Tris(hydroxymethyl)methylamine": "tromethamine", "Urea": "urea",
+    "Calcium chloride": "calcium_chloride_anhydrous",
+    "Magnesium chloride": "magnesium_chloride_anhydrous",
+    "Potassium carbonate": "potassium_carbonate", "Potassium chloride": "potassium_chloride",
+    "Potassium dihydrogen phosphate": "monopotassium_phosphate",
+    "Potassium hydrogen phosphate": "dipotassium_phosphate",
+    "Sodium acetate": "sodium_acetate_anhydrous", "Sodium carbonate": "sodium_carbonate_anhydrous",
+    "Sodium chloride": "sodium_chloride", "Sodium citrate dihydrate": "sodium_citrate_dihydrate",
+    "Sodium dihydrogen phosphate": "monosodium_phosphate_anhydrous",
+    "Sodium hydrogen carbonate": "sodium_bicarbonate",
+    "Sodium hydrogen phosphate": "disodium_phosphate_anhydrous",
+    "Sodium sulfate": "sodium_sulfate_anhydrous", "Ammonium chloride": "ammonium_chloride",
+    "Ammonium sulfate": "ammonium_sulfate", "Magnesium sulfate": "magnesium_sulfate_anhydrous",
+    "Sodium nitrate": "sodium_nitrate",
+}
+
+
+def _crc_solutes():
     tabs = pd.concat([pd.read_csv(p) for p in
-                      __import__("pathlib").Path("solutions/data/tables").glob("crc_*.csv")])
+                      __import__("pathlib").Path("solutions/data/tables").glob("crc_aqueous_20C_*.csv")])
+    return tabs[["solute", "molar_mass_g_per_mol"]].drop_duplicates().itertuples(index=False)
+
+
+def test_crc_molar_masses_of_every_tabulated_solute():
+    """Every solute of the CRC Handbook 102nd ed. 'Concentrative Properties of Aqueous
+    Solutions' tables (solutions/data/tables/crc_aqueous_20C_*.csv, Mol. wt. column) has its
+    library entry, found by name, and the library's formula gives the printed molar mass to
+    0.002 g/mol (the table's last digit plus the small spread between atomic-weight editions).
+    A wrong formula (mannitol as C6H12O6, 180.16 g/mol) fails."""
     lib = default_library()
-    checked = 0
-    for ing in lib:
-        if ing.hydrate_water or not ing.formula:
-            continue
-        row = tabs[tabs.molar_mass_g_per_mol.sub(ing.M * 1e3).abs() < 0.01]
-        checked += len(row) > 0
-    assert checked >= 15
+    rows = list(_crc_solutes())
+    assert {r.solute for r in rows} == set(CRC_SOLUTE_KEYS), "a CRC solute has no library key here"
+    for r in rows:
+        ing = lib.get(CRC_SOLUTE_KEYS[r.solute])
+        assert ing.key == CRC_SOLUTE_KEYS[r.solute]
+        assert molar_mass_from_formula(ing.formula) * 1e3 == pytest.approx(
+            r.molar_mass_g_per_mol, abs=0.002), r.solute
+        assert ing.M * 1e3 == pytest.approx(r.molar_mass_g_per_mol, abs=0.002), r.solute
+    assert len(rows) >= 35
 
 
 def test_hydrates_carry_their_water():
@@ -332,3 +367,26 @@ def test_recipe_row_with_formula_only():
     with pytest.raises(RecipeError, match="'ions' column"):
         read_recipe("ingredient,amount,unit,formula\nhouse zinc salt,0.1,g,ZnCl2\n"
                     "water,100,g,\n")
+
+
+# Rows whose formula column was mis-transcribed into solutions/data/tables (the printed molar
+# masses are right): citric acid is HOC(COOH)(CH2COOH)2 = C6H8O7, not C(OH)(COOH)3 = C4H4O7;
+# mannitol is HOCH2(CHOH)4CH2OH = C6H14O6, the leading "HO" is missing. Strict: when the
+# table is corrected these cases pass and the mark must go.
+_CRC_FORMULA_TYPOS = {"Citric acid", "D-Mannitol"}
+
+
+def _crc_formula_rows():
+    tabs = pd.concat([pd.read_csv(p) for p in
+                      __import__("pathlib").Path("solutions/data/tables").glob("crc_aqueous_20C_*.csv")])
+    rows = tabs[["solute", "formula", "molar_mass_g_per_mol"]].drop_duplicates()
+    return [pytest.param(*r, id=r[0], marks=[pytest.mark.xfail(
+        strict=True, reason="formula column mis-transcribed")] if r[0] in _CRC_FORMULA_TYPOS
+        else []) for r in rows.itertuples(index=False)]
+
+
+@pytest.mark.parametrize("solute, formula, M", _crc_formula_rows())
+def test_crc_table_formulas_give_their_printed_molar_mass(solute, formula, M):
+    """CRC Handbook 102nd ed. 'Concentrative Properties of Aqueous Solutions': each row's
+    formula, as stored, gives the Mol. wt. printed beside it to 0.002 g/mol."""
+    assert molar_mass_from_formula(formula.replace("·", ".")) * 1e3 == pytest.approx(M, abs=0.002)

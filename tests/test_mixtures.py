@@ -27,11 +27,16 @@ def test_seawater_freezing_point_against_teos10():
     """TEOS-10 (IOC, SCOR & IAPSO 2010) via the `gsw` package, an outside reference:
     air-free seawater of S_A = 35.16504 g/kg freezes at −1.919 °C at the surface. Six salts
     combined by the Ross rule with Pitzer binaries land within 0.05 K; the dilute-ideal
-    estimate is 0.2 K off."""
-    gsw = pytest.importorskip("gsw")
-    ref = float(gsw.t_freezing(35.16504, 0.0, 0.0))
-    assert ref == pytest.approx(-1.919, abs=0.001)
+    estimate is 0.2 K off. The published −1.919 °C is asserted here; the `gsw` check of that
+    record is test_recorded_seawater_freezing_point_is_teos10 (skips without gsw)."""
+    ref = -1.919
     Tf, _, _ = freezing_point(seawater())
     assert Tf[0] - 273.15 == pytest.approx(ref, abs=0.05)
     Tf_dilute, _, _ = freezing_point(seawater(), "dilute")
     assert abs(Tf_dilute[0] - 273.15 - ref) > 0.15
+
+
+def test_recorded_seawater_freezing_point_is_teos10():
+    """gsw.t_freezing(S_A = 35.16504 g/kg, 0 dbar, air-free) is the recorded −1.919 °C."""
+    gsw = pytest.importorskip("gsw")
+    assert float(gsw.t_freezing(35.16504, 0.0, 0.0)) == pytest.approx(-1.919, abs=0.001)

@@ -149,8 +149,7 @@ def test_low_set_reproduces_smw90_mgcl2(salts, param, tol):
 # -------------------------------------------------------------- freezing points (CRC)
 
 def _crc_rows(formula, max_mass_pct):
-    if not CRC_FILE.exists():
-        pytest.skip(f"{CRC_FILE.name} is not there yet")
+    assert CRC_FILE.exists(), f"project data file {CRC_FILE} is missing"
     out = []
     with open(CRC_FILE, newline="", encoding="utf-8") as fh:
         for r in csv.DictReader(fh):
@@ -159,16 +158,13 @@ def _crc_rows(formula, max_mass_pct):
             if float(r["mass_pct"]) <= max_mass_pct:
                 out.append((float(r["mass_pct"]), float(r["molality_mol_per_kg"]),
                             float(r["freezing_point_depression_K"])))
-    if not out:
-        pytest.skip(f"no CRC freezing points for {formula}")
+    assert out, f"no CRC freezing points for {formula} in {CRC_FILE.name}"
     return out
 
 
 def _ice_activity():
-    water = pytest.importorskip("solutions.water")
-    if not hasattr(water, "ice_water_activity"):
-        pytest.skip("solutions.water.ice_water_activity is not there yet")
-    return water.ice_water_activity
+    from solutions.water import ice_water_activity
+    return ice_water_activity
 
 
 def _freezing_depression(salt, b, ice_aw):
@@ -208,8 +204,7 @@ def test_cacl2_24pct_known_deviation(salts):
     known limitation with a 6 % bound so that a regression beyond it is caught."""
     ice_aw = _ice_activity()
     rows = [r for r in _crc_rows("CaCl2", 24.0) if r[0] == 24.0]
-    if not rows:
-        pytest.skip("CRC CaCl2 24 % row missing")
+    assert len(rows) == 1, "CRC CaCl2 24 % row missing"
     _, b, dT_crc = rows[0]
     assert dT_crc == 25.3
     dT = _freezing_depression(salts["CaCl2"], b, ice_aw)

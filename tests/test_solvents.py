@@ -203,6 +203,17 @@ def test_colligative_constants_follow_from_the_tabulated_enthalpies(name):
         assert kf == pytest.approx(c.Kf_K_kg_per_mol, rel=0.01)
 
 
+def test_water_constants_against_recorded_steam_tables():
+    """Runs without the iapws package: Δh_vap at 100 °C = 2256.4 kJ/kg (IAPWS-95 steam
+    tables, from memory; test_vpfit.py checks it against IAPWS-95 where iapws is installed)
+    times the IAPWS-95 molar mass, within 0.01 %; the normal boiling point is the IAPWS-IF97
+    saturation temperature at 101.325 kPa, 373.124 K, within 1 mK."""
+    w = solvent_constants("water")
+    assert w.enthalpy_of_vaporization_J_per_mol == pytest.approx(2256.4e3 * 0.018015268,
+                                                                 rel=1e-4)
+    assert w.normal_boiling_point_K == pytest.approx(373.124, abs=1e-3)
+
+
 def test_water_constants_against_iapws():
     """Outside check (iapws package): water's enthalpy of fusion (IAPWS-95 liquid minus
     IAPWS R10-06 ice at 273.15 K, 0.101325 MPa) and of vaporization at the normal

@@ -173,14 +173,26 @@ water,q.s. to 1000,mL""")
     assert model_g == pytest.approx(4.75, abs=0.24)
 
 
+def _freezing_depression(rows: str, model: str = "nonideal", volume_mL: int = 100) -> float:
+    """The model's freezing-point depression [K] of ``rows`` (CSV lines) made up to volume."""
+    r = _recipe("ingredient,amount,unit\n" + rows + f"\nwater,q.s. to {volume_mL},mL")
+    return evaluate(r, model=model).to_dict()["solution"]["freezing_point_depression_K"]
+
+
 def test_isotonic_example_2_dextrose_monohydrate():
     """Worked example: phcalculator.blogspot.com 'Examples on calculations for pharmaceutical
     isotonic solutions', Example 2 (isotonic_examples.md, Example 2; a teaching web page):
     100 mL of 5.0 % w/v dextrose monohydrate (E = 0.16) needs 0.1 g NaCl.
 
-    The E-value comes from e_values.csv (same page). The model (290 mOsm/kg) is compared
-    within 0.05 g/100 mL: E = 0.16 is a rounded single-concentration value, and 0.01 in E
-    moves the answer by 0.05 g/100 mL.
+    What this checks: the E-value arithmetic (0.9 − 5.0 × 0.16 = 0.1 g), the solver on a
+    q.s. recipe, and the model's answer within 0.05 g/100 mL (0.01 in E moves the answer by
+    0.05 g/100 mL). That answer cannot tell activity models apart: glucose is nearly ideal
+    at 0.26 mol/kg, and the NaCl added is small (non-ideal 0.081 g, dilute-ideal 0.084 g).
+    What does discriminate is the example's given E = 0.16: the model's own NaCl equivalent
+    of 1 % w/v glucose monohydrate (the NaCl % w/v with the same freezing-point depression,
+    common practice definition of E) must be 0.16 within 0.006 (the printed two decimals,
+    ±0.005, plus 0.001 for the solver). The non-ideal model gives 0.156; the dilute-ideal
+    model, which ignores NaCl's osmotic coefficient (≈ 0.93), gives 0.148 and fails.
     """
     recipe = _recipe("""ingredient,amount,unit
 glucose monohydrate,5.0,% w/v
@@ -191,6 +203,10 @@ water,q.s. to 100,mL""")
     assert e["ingredients"][0]["E"] == 0.16
     assert e["g_in_batch"] == pytest.approx(0.1, abs=0.005)
     assert r.number == pytest.approx(0.1, abs=0.05)
+    water = _recipe("ingredient,amount,unit\nwater,q.s. to 100,mL")
+    dT = _freezing_depression("glucose monohydrate,1,% w/v")
+    E_model = solve_target(water, "sodium chloride", Target.freezing_point_depression(dT)).number
+    assert E_model == pytest.approx(0.16, abs=0.006)
 
 
 def test_isotonic_example_3_glucose_by_freezing_point_method():
@@ -203,7 +219,15 @@ def test_isotonic_example_3_glucose_by_freezing_point_method():
     arithmetic and must give 39 g (2 significant figures, as published). The model,
     asked for the same ΔTf of 0.5184 K, is within 10 % (3.9 g): its own 0.9 % NaCl freezes
     0.53 K below water, so it needs less glucose than the 1 %-linear method; asked for
-    290 mOsm/kg it lands within 1 g of the published 39 g.
+    290 mOsm/kg it lands within 1 g of the published 39 g. Those two answers depend mostly
+    on glucose, which is nearly ideal: the dilute-ideal model also gives 38.5 g.
+
+    What discriminates: (a) the example's given ΔTf(1 % w/v NaCl) = 0.576 K, which the model
+    must reproduce within 0.02 K (non-ideal 0.590 K; the dilute-ideal 0.640 K fails);
+    (b) the published formula, 0.2 % NaCl + 3.9 % anhydrous glucose, is isotonic with 0.9 %
+    NaCl by the example's own definition, so its ΔTf must equal that of 0.9 % w/v NaCl in the
+    same model within 3 % (non-ideal ratio 1.017; dilute-ideal 0.946 fails); (c) the given
+    ΔTf(1 % w/v glucose) = 0.1037 K within 0.002 K (this one every model passes).
     """
     recipe = _recipe("""ingredient,amount,unit
 sodium chloride,0.2,% w/v
@@ -216,6 +240,11 @@ water,q.s. to 1000,mL""")
     fp = solve_target(recipe, "glucose anhydrous", Target.freezing_point_depression(0.5184))
     assert fp.e_value_method is None      # the E-value method belongs to osmolality targets
     assert fp.to_dict()["varied"]["mass_g"] == pytest.approx(39, rel=0.10)
+    assert _freezing_depression("sodium chloride,1,% w/v") == pytest.approx(0.576, abs=0.02)
+    assert _freezing_depression("glucose anhydrous,1,% w/v") == pytest.approx(0.1037, abs=0.002)
+    published = _freezing_depression("sodium chloride,0.2,% w/v\nglucose anhydrous,3.9,% w/v")
+    assert published / _freezing_depression("sodium chloride,0.9,% w/v") == pytest.approx(
+        1.0, abs=0.03)
 
 
 def test_e_value_table_maps_to_the_library():
@@ -248,8 +277,17 @@ def test_sodium_chloride_water_activity_target(b, a_w):
 def test_water_activity_target_round_trip(solute, a_w):
     """tests/reference/water_activity.csv has no glycerol or sucrose values, so this checks
     the round trip only: the adjusted recipe, written out and read back, evaluates to the
-    target a_w within the solver tolerance."""
+    target a_w within the solver tolerance.
+
+    Sucrose at a_w 0.90 lies past the CRC freezing-point rows its activity fit rests on (the
+    model stops near 44 % w/w, a_w 0.948): there the solver must refuse with the reason and
+    the last value it could compute, never return a number from beyond the data."""
     recipe = _recipe(f"ingredient,amount,unit\n{solute},10,% w/w\nwater,balance,")
+    if (solute, a_w) == ("sucrose", 0.90):
+        with pytest.raises(TargetError, match="leaves the model's range") as info:
+            solve_target(recipe, solute, Target.water_activity(a_w))
+        assert 0.90 < _nearest(str(info.value)) < 0.96
+        return
     r = solve_target(recipe, solute, Target.water_activity(a_w))
     back = evaluate(read_recipe(recipe_csv(r.recipe)))
     assert abs(float(back.props.water_activity[0]) - a_w) <= 1e-9

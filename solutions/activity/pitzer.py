@@ -308,6 +308,13 @@ def debye_huckel_Aphi(T):
     Clegg, Rard & Pitzer (1994) J. Chem. Soc. Faraday Trans. 90, 1875.
     Archer & Wang (1990) J. Phys. Chem. Ref. Data 19, 371.
     Møller (1988) Geochim. Cosmochim. Acta 52, 821.
+
+    Examples
+    --------
+    A_phi = 0.3915 at 25 degC (Pitzer 1991; Archer & Wang 1990 give 0.39148).
+
+    >>> print(f"{debye_huckel_Aphi(298.15):.4f}")
+    0.3915
     """
     T = np.asarray(T, dtype=float)
     if np.any(T <= 0):
@@ -417,6 +424,16 @@ def osmotic_coefficient(salt: PitzerSalt, b, T):
     References
     ----------
     Pitzer (1991); parameter sources in ``salt.source``.
+
+    Examples
+    --------
+    NaCl at 1 mol/kg and 25 degC: phi = 0.936 (Robinson & Stokes 1959, Electrolyte
+    Solutions, App. 8.10, 0.9355, from memory; the 25 degC parameters of Pitzer &
+    Mayorga 1973, fitted to those data, give 0.9359).
+
+    >>> salts = load_pitzer_salts()
+    >>> print(f"{osmotic_coefficient(salts['NaCl'], 1.0, 298.15):.3f}")
+    0.936
     """
     b = np.asarray(b, dtype=float)
     T = np.asarray(T, dtype=float)
@@ -455,6 +472,16 @@ def ln_water_activity(salt: PitzerSalt, b, T):
     Validity, references
     --------------------
     As :func:`osmotic_coefficient`.
+
+    Examples
+    --------
+    Saturated NaCl (6.15 mol/kg, CRC solubility) at 25 degC: a_w = 0.7529
+    (Greenspan 1977, J. Res. NBS 81A, 89: 75.29 % relative humidity), within 0.001.
+
+    >>> import numpy as np
+    >>> a_w = np.exp(ln_water_activity(load_pitzer_salts()["NaCl"], 6.15, 298.15))
+    >>> bool(abs(a_w - 0.7529) < 0.001)
+    True
     """
     b = np.asarray(b, dtype=float)
     out = np.asarray(-osmotic_coefficient(salt, b, T) * salt.nu * b * M_WATER, dtype=float)

@@ -70,6 +70,14 @@ def water_density(T, P=101325.0):
     IAPWS R7-97(2012), region 1. D. E. Hare and C. M. Sorensen, "The density
     of supercooled water. II. Bulk samples cooled to the homogeneous
     nucleation limit", J. Chem. Phys. 87, 4840-4845 (1987).
+
+    Examples
+    --------
+    IAPWS-95 (R6-95(2018), as computed by the iapws package): 998.207 kg/m^3 at
+    20 degC and 101.325 kPa; IF97 region 1 agrees to 0.001 kg/m^3.
+
+    >>> print(f"{water_density(293.15):.2f}")
+    998.21
     """
     T = np.asarray(T, dtype=float)
     P = np.asarray(P, dtype=float)

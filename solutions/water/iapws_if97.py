@@ -93,6 +93,13 @@ def saturation_pressure(T):
     References
     ----------
     IAPWS R7-97(2012), Eq. 30 and Table 34; check values Table 35.
+
+    Examples
+    --------
+    IAPWS R7-97(2012) Table 35, check value at T = 300 K: p_s = 0.353658941e-2 MPa.
+
+    >>> print(f"{saturation_pressure(300.0) / 1e6:.8e}")
+    3.53658941e-03
     """
     T = np.asarray(T, dtype=float)
     _check_range("temperature", T, SATURATION_T_MIN, SATURATION_T_MAX, "K",
@@ -134,6 +141,13 @@ def saturation_temperature(P):
     References
     ----------
     IAPWS R7-97(2012), Eq. 31 and Table 34; check values Table 36.
+
+    Examples
+    --------
+    IAPWS R7-97(2012) Table 36, check value at p = 0.1 MPa: T_s = 0.372755919e3 K.
+
+    >>> print(f"{saturation_temperature(0.1e6):.8e}")
+    3.72755919e+02
     """
     P = np.asarray(P, dtype=float)
     p_min = float(_psat_unchecked(np.asarray(SATURATION_T_MIN)))
@@ -189,6 +203,14 @@ def specific_volume_liquid(T, P):
     IAPWS R7-97(2012), region 1: 273.15 K <= T <= 623.15 K and
     p_s(T) <= p <= 100 MPa; check values Table 5. Outside it an
     OutOfRangeError is raised (below p_s(T) the stable phase is vapor).
+
+    Examples
+    --------
+    IAPWS R7-97(2012) Table 5, check value at T = 300 K, p = 3 MPa:
+    v = 0.100215168e-2 m^3/kg.
+
+    >>> print(f"{specific_volume_liquid(300.0, 3e6):.8e}")
+    1.00215168e-03
     """
     T = np.asarray(T, dtype=float)
     P = np.asarray(P, dtype=float)
@@ -227,6 +249,14 @@ def liquid_density(T, P):
     References
     ----------
     IAPWS R7-97(2012), region 1, Eq. 7 and Table 2.
+
+    Examples
+    --------
+    The reciprocal of the IAPWS R7-97(2012) Table 5 check value at T = 300 K,
+    p = 3 MPa (v = 0.100215168e-2 m^3/kg): 1/v = 997.853 kg/m^3.
+
+    >>> print(f"{liquid_density(300.0, 3e6):.3f}")
+    997.853
     """
     v = specific_volume_liquid(T, P)
     return 1.0 / v
