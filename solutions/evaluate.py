@@ -81,6 +81,10 @@ class Evaluation:
             "osmolarity_mOsm_per_L": num(p.osmolarity) if p.osmolarity is not None else None,
             "osmotic_coefficient": num(p.osmotic_coefficient),
             "osmotic_pressure_kPa": num(p.osmotic_pressure, 1e-3),
+            "partial_pressures_kPa": self._partials(1e-3),
+            "vapor_composition": self._vapor_composition(),
+            "flash_point_C": (num(p.flash_point, 1.0, -273.15)
+                              if p.flash_point is not None else None),
             "model": p.model,
             "model_description": p.model_name,
             "dilute_ideal": {
@@ -94,6 +98,26 @@ class Evaluation:
             },
         }
         return out
+
+    def _partials(self, scale: float) -> dict:
+        """{component name: partial pressure} over the solution; water alone when no
+        volatile organic is dissolved."""
+        p = self.props
+        if p.partial_pressures is None:
+            v = float(np.asarray(p.vapor_pressure).reshape(-1)[0])
+            return {self.composition.solvent.name: v * scale if math.isfinite(v) else None}
+        out = {}
+        for k, arr in p.partial_pressures.items():
+            v = float(np.asarray(arr).reshape(-1)[0])
+            out[k] = v * scale if math.isfinite(v) else None
+        return out
+
+    def _vapor_composition(self) -> dict:
+        pp = self._partials(1.0)
+        if any(v is None for v in pp.values()):
+            return {k: None for k in pp}
+        tot = sum(pp.values())
+        return {k: (v / tot if tot > 0 else None) for k, v in pp.items()}
 
     def to_dict(self) -> dict:
         r = self.resolved
