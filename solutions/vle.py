@@ -156,10 +156,20 @@ def _partials(terms: ActivityTerms, bs, T, vol):
     cols = [np.exp(terms.ln_a(bs, T)) * _water_pressure(T)]
     if vol:
         lxg = _organic_lnx_gamma(terms, bs, T)
-        for pos, _i, key in vol:
+        for pos, i, key in vol:
             p_star, c = pure_vapor_pressure(T, key)
             cav.extend(c)
-            cols.append(np.exp(lxg[:, pos]) * p_star)
+            col = np.exp(lxg[:, pos]) * p_star
+            if "vle" not in terms.params[i].data:
+                # freezing points fix the water's activity, not the organic's: no number
+                col = np.where(np.asarray(bs[i]) > 0, np.nan, 0.0) + 0.0 * col
+                cav.append(Caveat("beyond-data", f"{terms.labels[i]}: its activity "
+                                  "parameters come from freezing points only (no published "
+                                  "vapor–liquid data here), which do not fix its own vapor "
+                                  "pressure: partial pressure, total vapor pressure, boiling "
+                                  "and flash point are not reported", terms.labels[i],
+                                  about="vapor"))
+            cols.append(col)
     return np.column_stack(cols), cav
 
 
@@ -240,6 +250,9 @@ def bubble_point(comp: Composition, P=P_ATM, model: str = "nonideal",
         cav.append(Caveat("model-range", "no bubble point found between −23 °C and 30 K above "
                           "water's boiling point; not reported", None))
     Tsafe = np.where(np.isfinite(Tb), Tb, 373.15)
+    held, c = terms.withheld(bs, Tsafe)
+    cav.extend(c)
+    Tb = np.where(held, np.nan, Tb)
     pp, c = _partials(terms, bs, Tsafe, vol)
     cav.extend(c)
     cav.extend(terms.caveats(bs, Tsafe))
@@ -254,8 +267,9 @@ def flash_point(comp: Composition, model: str = "nonideal",
                 terms: ActivityTerms | None = None, P=P_ATM):
     """Flash point [K] of the liquid, shape (N,), and caveats (Liaw et al. 2002).
 
-    NaN with a caveat where no flammable volatile component is present, or where the
-    mixture boils at ``P`` before its vapor reaches the lower flammability limit.
+    NaN with a caveat where no flammable volatile component is present, where the
+    mixture boils at ``P`` before its vapor reaches the lower flammability limit, or where
+    the composition lies beyond the activity model's data (``withheld``).
     """
     _check(comp)
     terms = terms or activity_terms(comp, model)
@@ -284,7 +298,11 @@ def flash_point(comp: Composition, model: str = "nonideal",
     Tb, _, _, _ = bubble_point(comp, P, model, terms)
     hi = np.where(np.isfinite(Tb), Tb, 400.0)
     Tfp = _find_root(g, 200.0, hi, bs, N)
-    if np.any(~np.isfinite(Tfp)):
+    held, c = terms.withheld(bs, np.where(np.isfinite(Tfp), Tfp, 300.0))
+    cav.extend(c)
+    held |= ~np.isfinite(Tb)
+    Tfp = np.where(held, np.nan, Tfp)
+    if np.any(~np.isfinite(Tfp) & ~held):
         cav.append(Caveat("flash-point", "no flash point below the boiling point: the vapor "
                           "stays below the lower flammability limit up to boiling (not "
                           "flammable by this estimate)", None, about="vapor"))
