@@ -136,3 +136,15 @@ def test_evaluation_keys():
     assert sum(sol["vapor_composition"].values()) == pytest.approx(1.0)
     assert sol["vapor_pressure_kPa"] == pytest.approx(sum(sol["partial_pressures_kPa"].values()))
     assert 20 < sol["flash_point_C"] < 35
+
+
+def test_no_vapor_numbers_from_freezing_only_fits():
+    """Isopropanol's pair is fitted to CRC freezing points only: they fix the water's
+    activity, not isopropanol's, so its partial pressure, the bubble point and the flash
+    point are withheld (NaN) with a caveat rather than guessed."""
+    comp = Composition.from_mass_fractions((LIB.get("isopropanol"),), np.array([[0.1]]), WATER)
+    r = colligative(comp, 298.15)
+    assert np.isnan(r.vapor_pressure[0]) and np.isnan(r.boiling_point[0])
+    assert np.isnan(r.flash_point[0])
+    assert any(c.kind == "beyond-data" and "freezing points only" in c.message
+               for c in r.caveats)
