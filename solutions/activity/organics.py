@@ -167,12 +167,12 @@ def ln_water_activity(pairs, bs, T, M_solvent: float = M_WATER):
 
     Vectorized: each b of shape (N,), T scalar or (N,). Returns shape (N,).
 
-    Ethylene glycol, 50 % w/w (16.11 mol/kg): the CRC table's freezing point of −33.3
-    °C puts a_w at the ice value there, about 0.72 (IAPWS ice over Murphy–Koop water):
+    Ethylene glycol, 48 % w/w (14.87 mol/kg): the CRC table's freezing point of −33.30
+    °C puts a_w at the ice value there, 0.723 (IAPWS ice over Murphy–Koop water):
 
     >>> eg = load_nrtl_water()["ethylene glycol"]
-    >>> round(float(np.exp(ln_water_activity([eg], [16.11], 239.86))[0]), 2)
-    0.72
+    >>> round(float(np.exp(ln_water_activity([eg], [14.872], 239.86))[0]), 3)
+    0.724
     """
     x = mole_fractions(bs, M_solvent)
     lg = ln_gammas(pairs, x, T)
