@@ -11,7 +11,11 @@ Everything follows from the solvent activity a (water activity a_w in water):
   liquid; Koop et al. 2000). The ideal model uses the enthalpy-of-fusion relation of
   :func:`solutions.water.ice_water_activity_thermo`, the dilute model ΔT = K_f Σ ν b;
 * boiling point at external pressure P: the T where a(T) · p*(T) = P (non-volatile
-  solutes); the dilute model uses ΔT = K_b Σ ν b;
+  solutes); with volatile organics (ethanol, …) the bubble point, where the total
+  vapor pressure of water and organics equals P (:mod:`solutions.vle`), so the
+  "elevation" is negative for alcohols; the dilute model uses ΔT = K_b Σ ν b;
+* with volatile organics, the vapor pressure is the total over the liquid, with the
+  partial pressures and the flash point (Liaw et al. 2002) beside it;
 * osmolality −ln a_w / M_w, osmotic coefficient φ = osmolality / Σ ν b, osmotic
   pressure Π = −R T ln a_w / V_w with V_w = M_w / ρ_w(T), and the calculated
   osmolarity Σ ν c (the ideal count printed on labels).
@@ -115,6 +119,18 @@ class ColligativeResult:
     osmolarity: np.ndarray | None       # [mol/m³] calculated, ideal count; needs rho
     below_freezing: np.ndarray          # bool: T below the freezing point (ice is stable)
     caveats: list[Caveat] = field(default_factory=list)
+    # with volatile organics (else None): partial pressures [Pa] by component name, water
+    # first (over the stable phase), and the flash point [K] (NaN: none, a caveat says why)
+    partial_pressures: dict[str, np.ndarray] | None = None
+    flash_point: np.ndarray | None = None
+
+    @property
+    def vapor_composition(self) -> dict[str, np.ndarray] | None:
+        """Vapor mole fractions by component name, or None without volatile organics."""
+        if self.partial_pressures is None:
+            return None
+        tot = sum(self.partial_pressures.values())
+        return {k: v / tot for k, v in self.partial_pressures.items()}
 
     @property
     def vapor_pressure_lowering(self) -> np.ndarray:
@@ -274,13 +290,18 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
     N = comp.N
     P = np.broadcast_to(np.asarray(P, dtype=float), (N,))
     caveats: list[Caveat] = []
-    volatile = [s.name for s in comp.solutes if s.kind == "nonelectrolyte"
-                and s.solute in ("ethanol", "methanol", "2-propanol", "acetone")]
-    if volatile and comp.solvent.is_water:
+    volatile = _volatile_names(comp, terms)
+    if volatile and model != "nonideal":
         caveats.append(Caveat("volatile-solute",
-                              f"{', '.join(volatile)} is volatile: the boiling point shown counts "
-                              "only the water's vapor and is too high; a real mixture boils "
-                              "lower and its vapor is rich in the volatile part", volatile[0]))
+                              f"{', '.join(volatile)} is volatile: the {model} model counts "
+                              "only the water's vapor, so the boiling point shown is too high; "
+                              "the non-ideal model gives the bubble point", volatile[0]))
+    if volatile and model == "nonideal":
+        from .vle import bubble_point
+        T_pure = np.asarray(saturation_temperature(P), dtype=float)
+        Tb, _, _, cav = bubble_point(comp, P, model, terms)
+        caveats.extend(cav)
+        return Tb, Tb - T_pure, caveats
     if comp.solvent.is_water:
         if np.any(P < P_TRIPLE) or np.any(P > P_CRIT):
             bad = float(P[(P < P_TRIPLE) | (P > P_CRIT)][0])
@@ -333,6 +354,16 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
 #: compositions solved per vectorized call: keeps the solver's working arrays (and so the
 #: cost per point) flat for sweeps of millions of compositions
 ROOT_CHUNK = 32_768
+
+
+def _volatile_names(comp: Composition, terms: ActivityTerms) -> list[str]:
+    """Names of the dissolved volatile organics of an aqueous composition."""
+    if not comp.solvent.is_water:
+        return []
+    from .vle import volatile_keys
+    vk = set(volatile_keys())
+    groups = [(lab, cols) for lab, cols in zip(terms.labels, terms.columns)]
+    return [lab for lab, cols in groups if comp.solutes[cols[0]].solute in vk]
 
 
 def _bracketed_root(f, lo, hi, bs, N):
@@ -417,6 +448,19 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             f"{p_liq[i] / 1e3:.4g} kPa", None,
             {"vapor_pressure_ice_kPa": float(p_ice[i] / 1e3),
              "vapor_pressure_supercooled_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
+    partial = None
+    flash = None
+    if model == "nonideal" and _volatile_names(comp, terms):
+        from .vle import flash_point, vapor
+        vap = vapor(comp, T, model, terms)
+        caveats.extend(c.tagged("vapor") for c in vap.caveats)
+        organic = vap.partial_pressures[:, 1:].sum(axis=1)
+        p_stable = p_stable + organic
+        p_liq = p_liq + organic
+        partial = {n: vap.partial_pressures[:, i] for i, n in enumerate(vap.names)}
+        partial[vap.names[0]] = p_stable - organic
+        flash, cav = flash_point(comp, model, terms)
+        caveats.extend(c.tagged("vapor") for c in cav)
     Tb, dTb = nan, nan
     if with_boiling:
         Tb, dTb, cav = boiling_point(comp, P, model, terms)
@@ -467,4 +511,4 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     osmolarity = comp.particle_molarity(rho) if rho is not None else None
     return ColligativeResult(model, describe_model(model), T, P, a, p_stable, p_liq, p_pure,
                              Tf, dTf, Tb, dTb, osmolality, phi, Pi, osmolarity, below,
-                             merge_caveats(caveats))
+                             merge_caveats(caveats), partial, flash)

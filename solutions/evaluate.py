@@ -97,11 +97,33 @@ class Evaluation:
             **{q.key: self.value(q) for q in PROPERTIES},
             "vapor_pressure_liquid_kPa": self.value(_VP_LIQUID),
             "vapor_pressure_pure_kPa": self.value(_VP_PURE),
+            "partial_pressures_kPa": self._partials(1e-3),
+            "vapor_composition": self._vapor_composition(),
             "model": p.model,
             "model_description": p.model_name,
             "dilute_ideal": {q.key: self.value(q, dilute=True) for q in PROPERTIES if q.dilute},
         }
         return out
+
+    def _partials(self, scale: float) -> dict:
+        """{component name: partial pressure} over the solution; water alone when no
+        volatile organic is dissolved."""
+        p = self.props
+        if p.partial_pressures is None:
+            v = float(np.asarray(p.vapor_pressure).reshape(-1)[0])
+            return {self.composition.solvent.name: v * scale if math.isfinite(v) else None}
+        out = {}
+        for k, arr in p.partial_pressures.items():
+            v = float(np.asarray(arr).reshape(-1)[0])
+            out[k] = v * scale if math.isfinite(v) else None
+        return out
+
+    def _vapor_composition(self) -> dict:
+        pp = self._partials(1.0)
+        if any(v is None for v in pp.values()):
+            return {k: None for k in pp}
+        tot = sum(pp.values())
+        return {k: (v / tot if tot > 0 else None) for k, v in pp.items()}
 
     def to_dict(self) -> dict:
         r = self.resolved

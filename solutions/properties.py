@@ -92,6 +92,8 @@ PROPERTIES: tuple[Property, ...] = (
              tol=1e-6, needs="boiling"),
     Property("boiling_point_elevation_K", "Boiling-point elevation", "K", 1.0, 0.0, 3, "props",
              "boiling_point_elevation", _B, dilute=True),
+    Property("flash_point_C", "Flash point", "°C", 1.0, -273.15, 3, "props", "flash_point",
+             _V),
     Property("osmolality_mOsm_per_kg", "Osmolality", "mOsm/kg", 1e3, 0.0, 3, "props",
              "osmolality", _A, dilute=True, target="osmolality", flag="--osmolality",
              tol=1e-7),

@@ -10,13 +10,22 @@ model:
 ``ideal``
     ln a = ln x_s, Raoult's law on mole fractions, each solute counted as ν_i particles.
 ``nonideal`` (default)
-    Each solute's own binary water activity at its molality in the mixture —
-    electrolytes from the Pitzer equations (:mod:`solutions.activity.pitzer`),
-    non-electrolytes from the extended Norrish equation
-    (:mod:`solutions.activity.nonelectrolytes`) — combined by the Ross (1975) equation,
-    a_w = Π_i a_w,i(b_i, T). A solute with no parameters enters by Raoult's law and is
-    named in a caveat. Several ingredients that dissolve to the same solute (a salt and
-    its hydrate) are summed first.
+    Electrolytes from the Pitzer equations (:mod:`solutions.activity.pitzer`), each
+    at its molality; the organic non-electrolytes with NRTL parameters
+    (:mod:`solutions.activity.organics`) together in ONE multicomponent NRTL term on
+    salt-free mole fractions (water + organics), valid over the whole composition
+    range of their data; other non-electrolytes from their extended Norrish fit
+    (:mod:`solutions.activity.nonelectrolytes`). The parts are combined by the Ross
+    (1975) product rule, ln a_w = Σ_parts ln a_w,part, each part at its own
+    concentration in the water: exact when the parts do not interact, it leaves out
+    salt–organic interactions (salting out). Ross rather than Zdanovskii–Stokes–
+    Robinson because ZSR needs each part's binary molality at the mixture's a_w (an
+    inversion of every binary model inside every root search) and is tested on
+    electrolyte mixtures, while Ross is one sum, vectorizes directly and is the rule
+    of choice in food and pharmaceutical water-activity practice for sugar/polyol +
+    salt mixtures. A caveat states it when both parts are present. A solute with no
+    parameters enters by Raoult's law and is named in a caveat. Several ingredients
+    that dissolve to the same solute (a salt and its hydrate) are summed first.
 
     Salts are not combined by the Ross rule among themselves: all of them enter one
     term, the Pitzer mixed-electrolyte equations at their ion molalities (every ion in
@@ -40,15 +49,17 @@ import numpy as np
 
 from ..composition import Composition
 from ..errors import Caveat, SolutionsError
-from . import nonelectrolytes
+from . import nonelectrolytes, organics
 
 __all__ = ["MODELS", "MODEL_NAMES", "ActivityTerms", "activity_terms", "solvent_activity",
-           "solute_groups", "describe_model", "check_model"]
+           "solute_groups", "describe_model", "check_model", "NORRISH_MARGIN"]
+
+NORRISH_MARGIN = 1.1   # Norrish-fit compositions past 1.1 × the fitted molality are withheld
 
 MODELS = ("nonideal", "ideal", "dilute")
 MODEL_NAMES = {
-    "nonideal": "non-ideal: Pitzer (electrolytes) + extended Norrish (non-electrolytes), "
-                "Ross mixing",
+    "nonideal": "non-ideal: Pitzer mixed electrolytes + NRTL (organics; extended Norrish "
+                "where no NRTL data), Ross product between the two",
     "ideal": "ideal solution: Raoult's law on mole fractions",
     "dilute": "dilute ideal: textbook constants, ΔT = i·K·b",
 }
@@ -122,7 +133,7 @@ class ActivityTerms:
     model: str
     labels: tuple[str, ...]          # ingredient names, one per solute group
     columns: tuple[tuple[int, ...], ...]
-    kinds: tuple[str, ...]           # "pitzer", "norrish", "raoult" per group
+    kinds: tuple[str, ...]           # "pitzer", "nrtl", "norrish", "raoult" per group
     params: tuple[object, ...]
     ions: np.ndarray                 # ideal particles per formula unit, per group
     M_solvent: float                 # [kg/mol]
@@ -162,7 +173,12 @@ class ActivityTerms:
         out = 0.0 * T
         if self.electrolytes is not None:
             out = out + self._electrolyte_ln_a(bs, T)
+        org = self._nrtl(bs)
+        if org is not None:
+            out = out + organics.ln_water_activity(org[1], org[2], T, self.M_solvent)
         for kind, par, nu, b in zip(self.kinds, self.params, self.ions, bs):
+            if kind == "nrtl":
+                continue
             if kind == "pitzer":
                 continue  # all salts together, in one mixed-electrolyte term above
             elif kind == "norrish":
@@ -170,6 +186,48 @@ class ActivityTerms:
             else:
                 out = out - np.log1p(nu * b * self.M_solvent)
         return out
+
+    def _nrtl(self, bs):
+        """(labels, pairs, molalities) of the NRTL organics, or None."""
+        idx = [i for i, k in enumerate(self.kinds) if k == "nrtl"]
+        if self.model != "nonideal" or not idx:
+            return None
+        return (tuple(self.labels[i] for i in idx), tuple(self.params[i] for i in idx),
+                [bs[i] for i in idx])
+
+    def withheld(self, bs, T):
+        """(mask of shape (N,), caveats): compositions beyond the organic model's data
+        by more than the stated margin (NRTL: 1.1 × the fitted mole fraction, or more than
+        10 K colder than the coldest fitted point; Norrish fits: 1.1 × the fitted
+        molality), where solvent-activity results are withheld.
+
+        T : [K], scalar or (N,) (kept for models whose range depends on T).
+        """
+        N = max((np.atleast_1d(np.asarray(b)).shape[0] for b in bs), default=1)
+        N = max(N, np.atleast_1d(np.asarray(T)).shape[0])
+        mask = np.zeros(N, bool)
+        cav: list[Caveat] = []
+        if self.model != "nonideal":
+            return mask, cav
+        org = self._nrtl(bs)
+        if org is not None:
+            m, c = organics.withheld(org[0], org[1], org[2], self.M_solvent, T)
+            mask |= m
+            cav.extend(c)
+        for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
+            if kind != "norrish":
+                continue
+            m = np.broadcast_to(np.asarray(b, dtype=float) > NORRISH_MARGIN * par.b_max, (N,))
+            if np.any(m):
+                mask |= m
+                cav.append(Caveat("beyond-data",
+                                  f"{label}: {int(m.sum())} composition(s) above "
+                                  f"{NORRISH_MARGIN * par.b_max:.3g} mol/kg, more than "
+                                  f"{(NORRISH_MARGIN - 1) * 100:.0f} % past its fitted data "
+                                  f"({par.b_max:.3g} mol/kg, {par.w_max * 100:.3g} % w/w in water "
+                                  "alone); values that depend on the water activity are not "
+                                  "reported there", label, {"b_max": par.b_max}))
+        return mask, cav
 
     def caveats(self, bs, T) -> list[Caveat]:
         """Range warnings for these molalities at ``T`` [K], plus the fixed notes."""
@@ -181,6 +239,9 @@ class ActivityTerms:
             out.extend(self.electrolytes.caveats(
                 m.reshape(-1, m.shape[-1]),
                 np.broadcast_to(np.asarray(T, dtype=float), m.shape[:-1]).reshape(-1)))
+        org = self._nrtl(bs)
+        if org is not None:
+            out.extend(organics.validity(org[0], org[1], org[2], T))
         for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
             if kind == "pitzer":
                 if par[1] is not None:
@@ -200,6 +261,7 @@ def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
                             f"{comp.solvent.name}: Raoult's law used", comp.solvent.name))
         model = "ideal"
     norrish = nonelectrolytes.load_nonelectrolytes()
+    nrtl = organics.load_nrtl_water()
     labels, columns, kinds, params, ions = [], [], [], [], []
     for key, (cols, ing) in groups.items():
         labels.append(ing.name)
@@ -211,6 +273,8 @@ def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
                 mod, salt, ion_key = _pitzer_salt(key)
                 if ion_key is not None:
                     kind, par = "pitzer", (mod, salt, ion_key)
+            elif key in nrtl:
+                kind, par = "nrtl", nrtl[key]
             elif key in norrish:
                 kind, par = "norrish", norrish[key]
             if kind == "raoult":
@@ -222,6 +286,16 @@ def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:
         params.append(par)
     salts = [p[2] for k, p in zip(kinds, params) if k == "pitzer"]
     mixture = params[kinds.index("pitzer")][0].pitzer_mixture(salts) if salts else None
+    if model == "nonideal":
+        electro = [lab for lab, g in zip(labels, groups.values()) if g[1].kind == "electrolyte"]
+        organic = [lab for lab, k in zip(labels, kinds) if k in ("nrtl", "norrish")]
+        if electro and organic:
+            notes.append(Caveat("combining-rule",
+                                f"water activity of {', '.join(electro)} with "
+                                f"{', '.join(organic)}: Ross's product rule (each part at its "
+                                "own concentration in the water); salt–organic interactions "
+                                "(salting out) are not modelled, so mixed results are less "
+                                "certain than either part alone", organic[0]))
     return ActivityTerms(model, tuple(labels), tuple(columns), tuple(kinds), tuple(params),
                          np.array(ions, dtype=float), comp.solvent.M, tuple(notes), mixture)
 
