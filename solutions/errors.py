@@ -149,3 +149,34 @@ def merge_caveats(caveats) -> list[Caveat]:
             seen.add(c.message)
             out.append(c)
     return out
+
+
+_AT = {"boiling": "the boiling point", "freezing": "the freezing point",
+       "activity": "the solution's temperature", "vapor": "the solution's temperature"}
+
+
+def group_temperature_ranges(caveats) -> list[Caveat]:
+    """One caveat per temperature instead of one per parameter used outside its temperature
+    range (the same fact, many parameters): "at 100.1 °C (the boiling point) the parameters
+    of A, B and C are extrapolated"."""
+    out, groups = [], {}
+    for c in caveats:
+        x = c.extra or {}
+        if c.kind == "model-range" and x.get("quantity") == "temperature" and \
+                x.get("unit") == "K" and "value" in x:
+            groups.setdefault((c.about, round(float(x["value"]), 1)), []).append(c)
+        else:
+            out.append(c)
+    for (about, T), cs in groups.items():
+        if len(cs) == 1:
+            out.append(cs[0])
+            continue
+        names = list(dict.fromkeys(c.component or "?" for c in cs))
+        where = _AT.get(about, "the temperature used")
+        out.append(Caveat(
+            "model-range", f"at {T - 273.15:.4g} °C ({where}) the parameters of "
+            f"{', '.join(names[:-1])} and {names[-1]} are used outside the temperature ranges "
+            "their sources state: extrapolated", ", ".join(names),
+            {"quantity": "temperature", "value": T, "unit": "K", "parameters": names},
+            about=about))
+    return out

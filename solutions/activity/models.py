@@ -42,7 +42,8 @@ Ross, K. D. (1975) Food Technol. 29(3), 26–34 (the product rule for mixed solu
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+import re
+from dataclasses import dataclass, replace
 from functools import cache
 
 import numpy as np
@@ -248,7 +249,23 @@ class ActivityTerms:
                     out.extend(par[0].validity(par[1], b, T))
             elif kind == "norrish":
                 out.extend(nonelectrolytes.validity(label, par, b, T))
-        return out
+        return [self._named(c) for c in out]
+
+    def _named(self, c: Caveat) -> Caveat:
+        """The caveat with salts named as the recipe names them ("Sodium acetate trihydrate
+        (NaC2H3O2)") instead of by their parameter-table keys alone."""
+        names = {}
+        for label, kind, par in zip(self.labels, self.kinds, self.params):
+            if kind == "pitzer":
+                for key in {par[2], getattr(par[1], "name", None)} - {None}:
+                    names[key] = label
+        if not names:
+            return c
+        pattern = re.compile(r"(?<![\w(])(" + "|".join(re.escape(k) for k in
+                             sorted(names, key=len, reverse=True)) + r")(?![\w)])")
+        msg = pattern.sub(lambda m: f"{names[m.group(1)]} ({m.group(1)})", c.message)
+        comp = pattern.sub(lambda m: names[m.group(1)], c.component) if c.component else None
+        return replace(c, message=msg, component=comp) if msg != c.message else c
 
 
 def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:

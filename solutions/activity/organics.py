@@ -113,8 +113,10 @@ def load_nrtl_water() -> dict[str, NrtlPair]:
     out = {}
     for i, r in enumerate(df.to_dict("records"), start=2):
         alpha = _float(r, "alpha", i)
-        if not 0.0 < alpha <= 1.5:
-            raise NrtlDataError(i, "alpha", f"{alpha} outside (0, 1.5]")
+        # negative non-randomness parameters are used for some aqueous systems (the fitted
+        # urea and citric acid rows); the model's bounds are checked by the property tests
+        if not (-1.0 <= alpha <= 1.5 and alpha != 0.0):
+            raise NrtlDataError(i, "alpha", f"{alpha} outside [-1, 1.5] or zero")
         out[str(r["solute"])] = NrtlPair(
             str(r["solute"]), _float(r, "a12", i), _float(r, "b12_K", i), _float(r, "a21", i),
             _float(r, "b21_K", i), alpha, _float(r, "x2_max", i), _float(r, "w_max", i),
