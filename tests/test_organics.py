@@ -243,3 +243,14 @@ def test_combining_rule_caveat():
                                        np.array([[0.5, 1.0]]), WATER)
     terms = activity_terms(comp)
     assert any(c.kind == "combining-rule" and "Ross" in c.message for c in terms.notes)
+
+
+def test_binary_shortcut_equals_multicomponent_form():
+    """The one-organic shortcut in ln_water_activity gives the multicomponent numbers."""
+    p = organics.load_nrtl_water()["glycerol"]
+    b = np.linspace(0.0, 15.0, 7)
+    T = np.linspace(240.0, 370.0, 7)
+    x = organics.mole_fractions([b])
+    ref = np.log(x[:, 0]) + organics.ln_gammas([p], x, T)[:, 0]
+    np.testing.assert_allclose(organics.ln_water_activity([p], [b], T), ref, rtol=1e-12,
+                               atol=1e-15)
