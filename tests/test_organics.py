@@ -84,7 +84,7 @@ def test_pure_component_limits():
 
 # --------------------------------------------------------------------- published freezing points
 FREEZING = [
-    # (CRC name, key, w max %, tolerance factor over max(0.15 K, 3 %))
+    # (CRC name, key, w max %)
     ("1,2-Ethanediol", "ethylene glycol", 60),
     ("Methanol", "methanol", 50),
     ("Glycerol", "glycerol", 40),
@@ -110,12 +110,8 @@ def test_freezing_points_crc(name, key, wmax):
     np.testing.assert_array_less(err, tol(ref) * FACTOR.get(key, 1.0))
 
 
-# measured tolerance factors where the brief's max(0.15 K, 3 %) is not met, and why
-FACTOR = {
-    # NRTL (two τ, α fitted) misses the CRC ethylene glycol curve by up to 1.2× the target
-    # near 40–50 %; the extended Norrish polynomial it replaces met it to 50 % only.
-    "ethylene glycol": 1.25,
-}
+# tolerance factors over max(0.15 K, 3 %), where a pair cannot meet it (none at present)
+FACTOR: dict[str, float] = {}
 
 
 def test_glycerol_to_60_percent_lange():
@@ -243,3 +239,14 @@ def test_combining_rule_caveat():
                                        np.array([[0.5, 1.0]]), WATER)
     terms = activity_terms(comp)
     assert any(c.kind == "combining-rule" and "Ross" in c.message for c in terms.notes)
+
+
+def test_binary_shortcut_equals_multicomponent_form():
+    """The one-organic shortcut in ln_water_activity gives the multicomponent numbers."""
+    p = organics.load_nrtl_water()["glycerol"]
+    b = np.linspace(0.0, 15.0, 7)
+    T = np.linspace(240.0, 370.0, 7)
+    x = organics.mole_fractions([b])
+    ref = np.log(x[:, 0]) + organics.ln_gammas([p], x, T)[:, 0]
+    np.testing.assert_allclose(organics.ln_water_activity([p], [b], T), ref, rtol=1e-12,
+                               atol=1e-15)
