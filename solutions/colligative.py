@@ -65,34 +65,33 @@ def _ln_ice_at_triple() -> float:
     return float(np.log(ice_water_activity(T_TRIPLE)))
 
 
-def beyond_data(terms: ActivityTerms, bs) -> tuple[np.ndarray, list[Caveat]]:
+def beyond_data(terms: ActivityTerms, bs, T=None) -> tuple[np.ndarray, list[Caveat]]:
     """Compositions whose activity model would be extrapolated past its data by more than
-    :data:`DATA_MARGIN` (in molality), shape (N,), and a caveat naming each solute and limit.
-
-    The non-ideal model only: the ideal and dilute models are defined everywhere."""
+    :data:`DATA_MARGIN` (salts: in molality; organics: :meth:`ActivityTerms.withheld`, in
+    mole fraction, or colder than their data when ``T`` [K] is given), shape (N,), and a
+    caveat naming each solute and limit. The non-ideal model only: the ideal and dilute
+    models are defined everywhere."""
     n = len(np.atleast_1d(bs[0])) if bs else 1
     mask = np.zeros(n, bool)
     out: list[Caveat] = []
     if terms.model != "nonideal":
         return mask, out
     for label, kind, par, b in zip(terms.labels, terms.kinds, terms.params, bs):
-        if kind == "pitzer":
-            limit, what = par[1].b_max, "its Pitzer parameters"
-        elif kind == "norrish":
-            limit, what = par.b_max, "its water-activity fit"
-        else:
+        if kind != "pitzer" or par[1] is None:
             continue
+        limit = par[1].b_max
         far = np.atleast_1d(np.asarray(b, dtype=float)) > DATA_MARGIN * limit
         if np.any(far):
             mask |= far
             worst = float(np.max(np.atleast_1d(b)[far]))
             out.append(Caveat(
                 "beyond-data", f"{label} at {worst:.4g} mol/kg is past the {limit:.4g} mol/kg "
-                f"that {what} reach (by more than {100 * (DATA_MARGIN - 1):.0f} %): water "
-                "activity, vapor pressure, osmolality, osmotic pressure, freezing and boiling "
-                "points are not reported rather than extrapolated", label,
+                f"that its Pitzer parameters reach (by more than {100 * (DATA_MARGIN - 1):.0f} "
+                "%): water activity, vapor pressure, osmolality, osmotic pressure, freezing and "
+                "boiling points are not reported rather than extrapolated", label,
                 {"molality": worst, "b_max": limit, "margin": DATA_MARGIN}))
-    return mask, out
+    m2, c2 = terms.withheld(bs, T if T is not None else np.full(n, np.nan))
+    return mask | np.broadcast_to(m2, mask.shape), out + list(c2)
 
 
 @dataclass
@@ -134,8 +133,9 @@ class ColligativeResult:
 
     @property
     def vapor_pressure_lowering(self) -> np.ndarray:
-        """p*(T) − p(T) over the liquid solution [Pa]."""
-        return self.vapor_pressure_pure - self.vapor_pressure_liquid
+        """Lowering of the solvent's own vapor pressure, p*(T) (1 − a) [Pa] (Raoult's
+        measure; with volatile solutes the total vapor pressure can exceed p*)."""
+        return self.vapor_pressure_pure * (1.0 - self.water_activity)
 
 
 # ------------------------------------------------------------------ solvent curves
@@ -224,14 +224,14 @@ def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTe
     dT = T0 - Tf
     if np.any(nu_b == 0):
         dT = np.where(nu_b == 0, 0.0, dT)
-    far, cav = beyond_data(terms, bs)
+    far, cav = beyond_data(terms, bs, np.where(np.isfinite(Tf), Tf, T_MELT))
     caveats.extend(cav)
     dT = np.where(far, np.nan, dT)
     bad = ~np.isfinite(dT) & ~far
     if np.any(bad):
         caveats.append(Caveat("model-range",
-                              f"freezing point below {lo - 273.15:.0f} °C, outside the range "
-                              "this model can follow; not reported", None))
+                              f"the model finds no freezing point above {lo - 273.15:.0f} °C "
+                              "(outside the range its data cover); not reported", None))
     if np.any(np.isfinite(dT)):
         Tf_ok = np.where(bad, T_MELT, T_MELT - dT)
         caveats.extend(terms.caveats(bs, Tf_ok))
@@ -474,7 +474,7 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
             f"({Tb[i] - 273.15:.4g} °C): the solution boils in an open vessel; in a closed one its "
             f"vapor pressure ({p_liq[i] / 1e3:.4g} kPa) builds up — use a rated pressure vessel",
             None, {"vapor_pressure_kPa": float(p_liq[i] / 1e3)}, about="vapor"))
-    far, cav = beyond_data(terms, bs)
+    far, cav = beyond_data(terms, bs, T)
     # a_w above 1 cannot exist with solutes present (a_w = 1 to rounding is a trace of solute)
     impossible = ~np.isfinite(ln_a) | ((ln_a > 0.0) & (comp.particle_molality() > 0))
     if np.any(impossible & ~far):

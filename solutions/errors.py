@@ -168,13 +168,14 @@ def group_temperature_ranges(caveats) -> list[Caveat]:
         else:
             out.append(c)
     for (about, T), cs in groups.items():
-        if len(cs) == 1:
+        names = list(dict.fromkeys(c.component or "?" for c in cs))
+        if len(names) == 1:
             out.append(cs[0])
             continue
-        names = list(dict.fromkeys(c.component or "?" for c in cs))
         where = _AT.get(about, "the temperature used")
         out.append(Caveat(
-            "model-range", f"at {T - 273.15:.4g} °C ({where}) the parameters of "
+            "model-range", f"at {float(cs[0].extra['value']) - 273.15:.4g} °C ({where}) the "
+            "parameters of "
             f"{', '.join(names[:-1])} and {names[-1]} are used outside the temperature ranges "
             "their sources state: extrapolated", ", ".join(names),
             {"quantity": "temperature", "value": T, "unit": "K", "parameters": names},

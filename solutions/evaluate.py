@@ -218,6 +218,10 @@ def cautions_for(ev_or_res, props: ColligativeResult | None = None, *,
                        "protection, keep a margin, confirm with a measured freezing point, and "
                        "follow the equipment maker's and local codes' requirements; slush can "
                        "form above the stated point in real systems."))
+    fp = getattr(props, "flash_point", None) if props is not None else None
+    if fp is not None and np.isfinite(np.asarray(fp, dtype=float).reshape(-1)[0]):
+        from .vle import FLASH_CAUTION
+        out.append(("flammable", FLASH_CAUTION))
     out.append(("vessel", "Vapor pressure rises steeply with temperature: never heat a closed or "
                           "sealed vessel unless it is rated and fitted with pressure relief."))
     return out
@@ -243,8 +247,9 @@ def evaluate(recipe: Recipe | ResolvedRecipe, *, T: float = 298.15, P: float = P
     dilute = colligative(comp, T, P, "dilute", rho=rho) if props.model != "dilute" else props
     from .ingredients import acid_base_caveats
     from .limits import solubility_caveats
+    from .vle import FLASH_CAUTION
     warnings = merge_caveats([*(c.tagged("density") for c in (*res.caveats, *dres.caveats)),
-                              *props.caveats,
+                              *(c for c in props.caveats if c.message != FLASH_CAUTION),
                               *solubility_caveats(comp, T),
                               *(c.tagged("recipe") for c in acid_base_caveats(comp.solutes))])
     ev = Evaluation(res, float(T), float(P), props.model, rho, dres.method, props, dilute,

@@ -128,6 +128,11 @@ class VaporResult:
         return self.partial_pressures / P[:, None]
 
 
+#: an organic known from freezing points only contributes its estimated partial pressure where
+#: that is at most this share of the water's (semi-volatile glycols); otherwise it is withheld
+MINOR_VAPOR_SHARE = 0.02
+
+
 def _volatile_groups(terms: ActivityTerms):
     """Indices of the NRTL groups that are volatile, and their keys."""
     vk = set(volatile_keys())
@@ -161,14 +166,24 @@ def _partials(terms: ActivityTerms, bs, T, vol):
             cav.extend(c)
             col = np.exp(lxg[:, pos]) * p_star
             if "vle" not in terms.params[i].data:
-                # freezing points fix the water's activity, not the organic's: no number
-                col = np.where(np.asarray(bs[i]) > 0, np.nan, 0.0) + 0.0 * col
-                cav.append(Caveat("beyond-data", f"{terms.labels[i]}: its activity "
-                                  "parameters come from freezing points only (no published "
-                                  "vapor–liquid data here), which do not fix its own vapor "
-                                  "pressure: partial pressure, total vapor pressure, boiling "
-                                  "and flash point are not reported", terms.labels[i],
-                                  about="vapor"))
+                # freezing points fix the water's activity, not the organic's own: its
+                # partial pressure is kept only where it is a small part of the vapor (a
+                # glycol's), so that even a factor of 2 in its γ moves the total by < 2 %
+                small = col <= MINOR_VAPOR_SHARE * cols[0]
+                if np.any(small & (np.asarray(bs[i]) > 0)):
+                    cav.append(Caveat(
+                        "model-range", f"{terms.labels[i]}: its activity parameters come from "
+                        "freezing points only; its own partial pressure, under "
+                        f"{MINOR_VAPOR_SHARE:.0%} of the water's, is estimated with them",
+                        terms.labels[i], about="vapor"))
+                if np.any(~small):
+                    cav.append(Caveat(
+                        "beyond-data", f"{terms.labels[i]}: its activity parameters come from "
+                        "freezing points only (no published vapor–liquid data here), which do "
+                        "not fix its own vapor pressure: partial pressure, total vapor "
+                        "pressure, boiling and flash point are not reported", terms.labels[i],
+                        about="vapor"))
+                col = np.where(small | (np.asarray(bs[i]) <= 0), col, np.nan)
             cols.append(col)
     return np.column_stack(cols), cav
 

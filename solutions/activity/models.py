@@ -244,10 +244,7 @@ class ActivityTerms:
         if org is not None:
             out.extend(organics.validity(org[0], org[1], org[2], T))
         for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
-            if kind == "pitzer":
-                if par[1] is not None:
-                    out.extend(par[0].validity(par[1], b, T))
-            elif kind == "norrish":
+            if kind == "norrish":   # salts: the mixture's caveats above cover every pair
                 out.extend(nonelectrolytes.validity(label, par, b, T))
         return [self._named(c) for c in out]
 
