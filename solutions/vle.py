@@ -128,9 +128,10 @@ class VaporResult:
         return self.partial_pressures / P[:, None]
 
 
-#: an organic known from freezing points only contributes its estimated partial pressure where
-#: that is at most this share of the water's (semi-volatile glycols); otherwise it is withheld
-MINOR_VAPOR_SHARE = 0.02
+#: an organic known from freezing points only contributes its estimated partial pressure when
+#: its pure vapor pressure is at most this share of water's (semi-volatile glycols, glycerol,
+#: DMSO); a volatile one (methanol, isopropanol, acetone) has its vapor numbers withheld
+MINOR_VAPOR_SHARE = 0.05
 
 
 def _volatile_groups(terms: ActivityTerms):
@@ -167,14 +168,17 @@ def _partials(terms: ActivityTerms, bs, T, vol):
             col = np.exp(lxg[:, pos]) * p_star
             if "vle" not in terms.params[i].data:
                 # freezing points fix the water's activity, not the organic's own: its
-                # partial pressure is kept only where it is a small part of the vapor (a
-                # glycol's), so that even a factor of 2 in its γ moves the total by < 2 %
-                small = col <= MINOR_VAPOR_SHARE * cols[0]
+                # partial pressure is kept only for a semi-volatile organic (a glycol), whose
+                # pure vapor pressure is a small fraction of water's, so that even a wrong γ
+                # moves the total little; a volatile one (isopropanol) is withheld
+                small = np.broadcast_to(p_star <= MINOR_VAPOR_SHARE * _water_pressure(T),
+                                        col.shape)
                 if np.any(small & (np.asarray(bs[i]) > 0)):
                     cav.append(Caveat(
                         "model-range", f"{terms.labels[i]}: its activity parameters come from "
-                        "freezing points only; its own partial pressure, under "
-                        f"{MINOR_VAPOR_SHARE:.0%} of the water's, is estimated with them",
+                        "freezing points only; it is semi-volatile (pure vapor pressure under "
+                        f"{MINOR_VAPOR_SHARE:.0%} of water's), so its small partial pressure is "
+                        "estimated with them",
                         terms.labels[i], about="vapor"))
                 if np.any(~small):
                     cav.append(Caveat(

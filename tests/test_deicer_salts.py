@@ -170,7 +170,7 @@ def test_beyond_the_data_is_flagged():
     assert not np.isfinite(np.asarray(ev.props.freezing_point, float)).any()
     assert any("8.42 mol/kg" in c.message for c in ev.warnings)
     ev = evaluate(recipe("potassium formate", 50.0))
-    assert any("KHCO2: molality" in c.message and "10.86" in c.message for c in ev.warnings)
+    assert any("(KHCO2): molality" in c.message and "10.86" in c.message for c in ev.warnings)
 
 
 def test_walkway_demo_uses_potassium_formate():

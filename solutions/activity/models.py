@@ -49,7 +49,7 @@ from functools import cache
 import numpy as np
 
 from ..composition import Composition
-from ..errors import Caveat, SolutionsError
+from ..errors import Caveat, SolutionsError, merge_caveats
 from . import nonelectrolytes, organics
 
 __all__ = ["MODELS", "MODEL_NAMES", "ActivityTerms", "activity_terms", "solvent_activity",
@@ -244,9 +244,11 @@ class ActivityTerms:
         if org is not None:
             out.extend(organics.validity(org[0], org[1], org[2], T))
         for label, kind, par, b in zip(self.labels, self.kinds, self.params, bs):
-            if kind == "norrish":   # salts: the mixture's caveats above cover every pair
+            if kind == "pitzer" and par[1] is not None:  # molality and A_phi ranges
+                out.extend(par[0].validity(par[1], b, T))
+            elif kind == "norrish":
                 out.extend(nonelectrolytes.validity(label, par, b, T))
-        return [self._named(c) for c in out]
+        return merge_caveats([self._named(c) for c in out])
 
     def _named(self, c: Caveat) -> Caveat:
         """The caveat with salts named as the recipe names them ("Sodium acetate trihydrate
