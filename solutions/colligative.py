@@ -65,6 +65,14 @@ def _ln_ice_at_triple() -> float:
     return float(np.log(ice_water_activity(T_TRIPLE)))
 
 
+def _tag(c: Caveat, about: str) -> Caveat:
+    """Tag a caveat with what it bears on; a withheld-for-want-of-data caveat bears on every
+    activity-derived result wherever it was raised."""
+    if c.kind == "beyond-data" and "T_min_K" not in (c.extra or {}):
+        return c   # past the composition data: every activity-derived value is withheld
+    return c.tagged(about)
+
+
 def beyond_data(terms: ActivityTerms, bs, T=None) -> tuple[np.ndarray, list[Caveat]]:
     """Compositions whose activity model would be extrapolated past its data by more than
     :data:`DATA_MARGIN` (salts: in molality; organics: :meth:`ActivityTerms.withheld`, in
@@ -424,17 +432,17 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     bs = terms.molalities(comp)
     caveats: list[Caveat] = []
     ln_a = terms.ln_a(bs, T)
-    caveats.extend(c.tagged("activity") for c in terms.caveats(bs, T))
+    caveats.extend(_tag(c, "activity") for c in terms.caveats(bs, T))
     a = np.exp(ln_a)
     p_pure, cav = vapor_pressure_pure(comp, T)
-    caveats.extend(c.tagged("vapor") for c in cav)
+    caveats.extend(_tag(c, "vapor") for c in cav)
     p_liq = a * p_pure
 
     nan = np.full(N, np.nan)
     Tf, dTf, below = nan, nan, np.zeros(N, bool)
     if with_freezing:
         Tf, dTf, cav = freezing_point(comp, model, terms)
-        caveats.extend(c.tagged("freezing") for c in cav)
+        caveats.extend(_tag(c, "freezing") for c in cav)
         below = np.isfinite(Tf) & (T < Tf - 1e-9)
     p_stable = p_liq.copy()
     if comp.solvent.is_water and np.any(below):
@@ -453,18 +461,18 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     if model == "nonideal" and _volatile_names(comp, terms):
         from .vle import flash_point, vapor
         vap = vapor(comp, T, model, terms)
-        caveats.extend(c.tagged("vapor") for c in vap.caveats)
+        caveats.extend(_tag(c, "vapor") for c in vap.caveats)
         organic = vap.partial_pressures[:, 1:].sum(axis=1)
         p_stable = p_stable + organic
         p_liq = p_liq + organic
         partial = {n: vap.partial_pressures[:, i] for i, n in enumerate(vap.names)}
         partial[vap.names[0]] = p_stable - organic
         flash, cav = flash_point(comp, model, terms)
-        caveats.extend(c.tagged("vapor") for c in cav)
+        caveats.extend(_tag(c, "vapor") for c in cav)
     Tb, dTb = nan, nan
     if with_boiling:
         Tb, dTb, cav = boiling_point(comp, P, model, terms)
-        caveats.extend(c.tagged("boiling") for c in cav)
+        caveats.extend(_tag(c, "boiling") for c in cav)
 
     above = np.isfinite(Tb) & (T > Tb + 1e-9)
     if np.any(above):

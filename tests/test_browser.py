@@ -240,14 +240,17 @@ def test_screenshots(app_page, name, rows, metric):
     if rows is not None:
         _paste_recipe(page, rows, wait_for_metric=metric)
     assert not page.locator("[data-testid=stException]").count()
+    # the results section's own elements (the tool tabs below have metrics and charts too)
+    outside_tabs = "[not(ancestor::div[@data-testid='stTabs'])]"
+    metrics = page.locator(f"xpath=//div[@data-testid='stMetric']{outside_tabs}")
     if metric:
-        assert page.locator("[data-testid=stMetric]").count() >= 4
-        charts = page.locator("[data-testid=stVegaLiteChart]")
+        assert metrics.count() >= 4
+        charts = page.locator(f"xpath=//div[@data-testid='stVegaLiteChart']{outside_tabs}")
         charts.nth(2).locator("canvas, svg").first.wait_for()
         assert charts.count() == 3
     else:
         page.get_by_text("Numbers use a decimal comma", exact=False).first.wait_for()
-        assert page.locator("[data-testid=stMetric]").count() == 0
+        assert metrics.count() == 0
     SHOTS.mkdir(parents=True, exist_ok=True)
     # Streamlit scrolls inside its own container: a tall window shows the whole page
     page.set_viewport_size({"width": 1400, "height": 4400})
