@@ -26,8 +26,10 @@ CASES = [
     ("nonelectrolytes", "Sucrose", "sucrose", 50),
     ("nonelectrolytes", "D-Glucose", "glucose anhydrous", 40),
     ("nonelectrolytes", "Glycerol", "glycerol", 50),
-    ("nonelectrolytes", "1,2-Ethanediol", "ethylene glycol", 50),
-    ("nonelectrolytes", "Ethanol", "ethanol", 40),
+    ("nonelectrolytes", "1,2-Ethanediol", "ethylene glycol", 60),
+    ("nonelectrolytes", "Methanol", "methanol", 50),
+    ("nonelectrolytes", "Ethanol", "ethanol", 10),
+    ("nonelectrolytes", "Urea", "urea", 44),
 ]
 
 
