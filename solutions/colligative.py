@@ -36,7 +36,7 @@ from functools import cache
 
 import numpy as np
 
-from . import roots as elementwise  # numpy-only Chandrupatla: same call, same results
+from . import roots
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
@@ -359,11 +359,6 @@ def boiling_point(comp: Composition, P=P_ATM, model: str = "nonideal",
     return T_pure + dT, dT, caveats
 
 
-#: compositions solved per vectorized call: keeps the solver's working arrays (and so the
-#: cost per point) flat for sweeps of millions of compositions
-ROOT_CHUNK = 32_768
-
-
 def _volatile_names(comp: Composition, terms: ActivityTerms) -> list[str]:
     """Names of the dissolved volatile organics of an aqueous composition."""
     if not comp.solvent.is_water:
@@ -375,32 +370,8 @@ def _volatile_names(comp: Composition, terms: ActivityTerms) -> list[str]:
 
 
 def _bracketed_root(f, lo, hi, bs, N):
-    """Vectorized root of f(T, *bs) in [lo, hi]; NaN where the bracket holds no root.
-    Large sweeps are solved in chunks of :data:`ROOT_CHUNK` compositions."""
-    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,))
-    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,))
-    args = tuple(np.broadcast_to(np.asarray(b, dtype=float), (N,)) for b in bs)
-    if N > ROOT_CHUNK:
-        out = np.empty(N)
-        for k in range(0, N, ROOT_CHUNK):
-            sl = slice(k, min(k + ROOT_CHUNK, N))
-            out[sl] = _bracketed_root(f, lo[sl], hi[sl], [a[sl] for a in args], sl.stop - k)
-        return out
-    lo, hi = lo.copy(), hi.copy()
-    with np.errstate(all="ignore"):
-        flo, fhi = f(lo, *args), f(hi, *args)
-    ok = np.isfinite(flo) & np.isfinite(fhi) & (np.sign(flo) != np.sign(fhi))
-    exact_hi = fhi == 0
-    out = np.full(N, np.nan)
-    out[exact_hi] = hi[exact_hi]
-    ok &= ~exact_hi
-    if np.any(ok):
-        sub = tuple(a[ok] for a in args)
-        with np.errstate(all="ignore"):
-            res = elementwise.find_root(f, (lo[ok], hi[ok]), args=sub,
-                                        tolerances={"xatol": 1e-9, "xrtol": 1e-13})
-        out[ok] = np.where(res.success, res.x, np.nan)
-    return out
+    """Vectorized root of f(T, *bs) in [lo, hi] (:func:`solutions.roots.bracketed_root`)."""
+    return roots.bracketed_root(f, lo, hi, bs, N, xatol=1e-9, xrtol=1e-13)
 
 
 # ------------------------------------------------------------------ everything at once

@@ -24,7 +24,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["find_root", "RootResult", "CONVERGED", "SIGN_ERROR", "MAX_ITER", "VALUE_ERROR"]
+__all__ = ["find_root", "bracketed_root", "ROOT_CHUNK", "RootResult", "CONVERGED", "SIGN_ERROR", "MAX_ITER", "VALUE_ERROR"]
 
 #: ``status`` codes: converged; the bracket does not change sign; out of iterations;
 #: a non-finite abscissa or function value
@@ -172,3 +172,39 @@ def find_root(f, init, /, *, args=(), tolerances=None, maxiter=None) -> RootResu
     return RootResult(x=r(X), fun=r(F), success=r(status == CONVERGED), status=r(status),
                       nit=r(nit), nfev=r(nfev), bracket=(r(xl), r(xr)),
                       f_bracket=(r(fl), r(fr)))
+
+
+#: compositions solved per vectorized call: keeps the solver's working arrays (and so the
+#: cost per point) flat for sweeps of millions of compositions
+ROOT_CHUNK = 32_768
+
+
+def bracketed_root(f, lo, hi, bs, N, *, xatol=1e-9, xrtol=1e-13):
+    """Vectorized root of f(x, *bs) in [lo, hi] for N problems; NaN where the bracket holds
+    no root (a sign change is needed), ``hi`` where f(hi) is exactly 0. Large sweeps are
+    solved in chunks of :data:`ROOT_CHUNK` problems, so the working arrays stay small."""
+    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,))
+    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,))
+    args = tuple(np.broadcast_to(np.asarray(b, dtype=float), (N,)) for b in bs)
+    if N > ROOT_CHUNK:
+        out = np.empty(N)
+        for k in range(0, N, ROOT_CHUNK):
+            sl = slice(k, min(k + ROOT_CHUNK, N))
+            out[sl] = bracketed_root(f, lo[sl], hi[sl], [a[sl] for a in args], sl.stop - k,
+                                     xatol=xatol, xrtol=xrtol)
+        return out
+    lo, hi = lo.copy(), hi.copy()
+    with np.errstate(all="ignore"):
+        flo, fhi = f(lo, *args), f(hi, *args)
+    ok = np.isfinite(flo) & np.isfinite(fhi) & (np.sign(flo) != np.sign(fhi))
+    exact_hi = fhi == 0
+    out = np.full(N, np.nan)
+    out[exact_hi] = hi[exact_hi]
+    ok &= ~exact_hi
+    if np.any(ok):
+        sub = tuple(a[ok] for a in args)
+        with np.errstate(all="ignore"):
+            res = find_root(f, (lo[ok], hi[ok]), args=sub,
+                           tolerances={"xatol": xatol, "xrtol": xrtol})
+        out[ok] = np.where(res.success, res.x, np.nan)
+    return out

@@ -34,7 +34,7 @@ import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import elementwise
+from . import roots
 
 from .activity import organics
 from .activity.models import ActivityTerms, activity_terms
@@ -223,20 +223,7 @@ def _salt_note(terms, vol):
 
 
 def _find_root(f, lo, hi, args, N):
-    lo = np.broadcast_to(np.asarray(lo, dtype=float), (N,)).copy()
-    hi = np.broadcast_to(np.asarray(hi, dtype=float), (N,)).copy()
-    args = tuple(np.broadcast_to(np.asarray(a, dtype=float), (N,)) for a in args)
-    with np.errstate(all="ignore"):
-        flo, fhi = f(lo, *args), f(hi, *args)
-    ok = np.isfinite(flo) & np.isfinite(fhi) & (np.sign(flo) != np.sign(fhi))
-    out = np.full(N, np.nan)
-    if np.any(ok):
-        sub = tuple(a[ok] for a in args)
-        with np.errstate(all="ignore"):
-            res = elementwise.find_root(f, (lo[ok], hi[ok]), args=sub,
-                                        tolerances={"xatol": 1e-7, "xrtol": 1e-12})
-        out[ok] = np.where(res.success, res.x, np.nan)
-    return out
+    return roots.bracketed_root(f, lo, hi, args, N, xatol=1e-7, xrtol=1e-12)
 
 
 def bubble_point(comp: Composition, P=P_ATM, model: str = "nonideal",

@@ -223,6 +223,11 @@ def withheld(labels, pairs, bs, M_solvent: float = M_WATER, T=None):
         N = mask.shape[0]
         T = np.broadcast_to(np.asarray(T, dtype=float), (N,))
         for lab, p, b in zip(labels, pairs, bs):
+            if "vle" not in p.data:
+                # freezing-only pairs take a_w as independent of T (common practice for
+                # sugars, polyols and glycols): a mixture freezing colder than their own data
+                # (a sugar in a brine) is a mild extrapolation, noted, not withheld
+                continue
             cold = np.broadcast_to(np.asarray(b, dtype=float) > 0, (N,)) & (
                 T < p.T_min - COLD_MARGIN_K)
             if np.any(cold):
