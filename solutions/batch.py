@@ -27,7 +27,7 @@ from .colligative import P_ATM
 from .composition import Composition
 from .concentration import in_basis
 from .density import solution_density, solvent_density
-from .errors import Caveat, RecipeError, TargetError, merge_caveats
+from .errors import Caveat, RecipeError, TargetError, caveat_fields
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, parse_batch,
@@ -121,7 +121,7 @@ class WeighOut:
         and ``final`` (volume and density at the preparation temperature)."""
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
+        d.update(caveat_fields([*ev.warnings, *self.caveats]))
         kind, v = self.batch
         d["batch"] = {"kind": kind, "mass_g": v * 1e3 if kind == "mass" else None,
                       "volume_mL": v * 1e6 if kind == "volume" else None}
@@ -233,7 +233,7 @@ class DilutionPlan:
     def to_dict(self) -> dict:
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
+        d.update(caveat_fields([*ev.warnings, *self.caveats]))
         solvent = self.stock.composition.solvent.name
         d["dilution"] = {
             "ingredient": self.row.text, "target": self.target_number, "unit": self.target_unit,

@@ -141,6 +141,13 @@ class Caveat:
         return self.message
 
 
+def caveat_fields(caveats) -> dict:
+    """The result envelope's warning fields, both from one list: ``warnings`` (messages)
+    and ``warnings_detail`` (kind, component, about), each caveat once."""
+    cav = merge_caveats(caveats)
+    return {"warnings": [c.message for c in cav], "warnings_detail": [c.to_dict() for c in cav]}
+
+
 def merge_caveats(caveats) -> list[Caveat]:
     """The caveats in order, each message once."""
     seen, out = set(), []

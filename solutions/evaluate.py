@@ -23,7 +23,7 @@ import numpy as np
 from . import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
-from .errors import Caveat, OptionError, merge_caveats
+from .errors import Caveat, OptionError, caveat_fields, merge_caveats
 from .concentration import in_basis
 from .properties import PROPERTIES, Property
 from .recipe import Recipe, ResolvedRecipe, T_PREP, resolve
@@ -137,8 +137,7 @@ class Evaluation:
             "components": self.components(),
             "solution": self.solution(),
             "recipe": r.recipe.as_written(),
-            "warnings": [w.message for w in self.warnings],
-            "warnings_detail": [w.to_dict() for w in self.warnings],
+            **caveat_fields(self.warnings),
             "cautions": [msg for _, msg in self.cautions],
             "cautions_detail": [{"tag": tag, "message": msg} for tag, msg in self.cautions],
         }

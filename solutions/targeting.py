@@ -46,7 +46,7 @@ import numpy as np
 
 from .colligative import P_ATM, colligative
 from .density import solution_density
-from .errors import Caveat, InputError, RecipeError, TargetError, merge_caveats
+from .errors import Caveat, InputError, RecipeError, TargetError, caveat_fields
 from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
@@ -311,7 +311,7 @@ class TargetResult:
         """``evaluate --json`` of the adjusted recipe plus recipe, varied and target."""
         ev = self.evaluation
         d = ev.to_dict()
-        d["warnings"] = [w.message for w in merge_caveats([*ev.warnings, *self.caveats])]
+        d.update(caveat_fields([*ev.warnings, *self.caveats]))
         d["recipe"] = self.recipe.as_written()
         j = self._varied_index()
         res = ev.resolved
