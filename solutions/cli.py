@@ -505,9 +505,9 @@ def cmd_partition(args) -> int:
 
     def g(x, unit=" g/L"):
         return "not given (see warnings)" if x is None else f"{x:.4g}{unit}"
-    lines = [f"{out['ingredient']} in an emulsion with oil volume fraction "
+    lines = [f"{out['ingredient_name']} in an emulsion with oil volume fraction "
              f"{out['oil_volume_fraction']:g}",
-             f"  partitions as               {out['partitions_as']}",
+             f"  partitions as               {out['partitions_as_name']}",
              f"  log K_ow                    {g(out['log_Kow'], '')}",
              f"  K oil/water (un-ionized)    {out['partition_coefficient_unionized']:.4g}",
              f"  pKa / pH / un-ionized       {g(out['pKa'], '')} / {g(out['pH'], '')} / "

@@ -299,6 +299,8 @@ class PartitionResult:
     def to_dict(self) -> dict:
         cav = merge_caveats(self.caveats)
         d = {"ingredient": self.ingredient, "partitions_as": self.parent,
+             "ingredient_name": _display_name(self.ingredient),
+             "partitions_as_name": _display_name(self.parent),
              "oil_volume_fraction": self.phi,
              "total_g_per_L": self.c_total, "total_as_parent_g_per_L": self.c_total_parent,
              "log_Kow": self.log_Kow, "partition_coefficient_unionized": self.K,
@@ -469,3 +471,10 @@ def phase_profile(ingredient: str, phi: float, c_total: float, pH_values, **kw) 
     kS = base.R_binding - 1.0
     u = free_unionized_water(base.c_total_parent, phi, base.K, f, kS)
     return {"pH": pH, "water": u * (1.0 / f + kS), "oil": base.K * u, "free_unionized": u}
+
+
+def _display_name(key: str) -> str:
+    """The library's name for a partition-table key (the key itself if the library lacks it)."""
+    from .ingredients import default_library
+    lib = default_library()
+    return next((i.name for i in lib if i.key == key), key)

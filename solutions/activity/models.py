@@ -222,7 +222,7 @@ class ActivityTerms:
             if np.any(m):
                 mask |= m
                 cav.append(Caveat("beyond-data",
-                                  f"{label}: {int(m.sum())} composition(s) above "
+                                  f"{label}: {'this solution is' if N == 1 else str(int(m.sum())) + ' of the compositions are'} above "
                                   f"{NORRISH_MARGIN * par.b_max:.3g} mol/kg, more than "
                                   f"{(NORRISH_MARGIN - 1) * 100:.0f} % past its fitted data "
                                   f"({par.b_max:.3g} mol/kg, {par.w_max * 100:.3g} % w/w in water "

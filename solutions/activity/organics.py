@@ -242,11 +242,13 @@ def withheld(labels, pairs, bs, M_solvent: float = M_WATER, T=None):
     if np.any(mask):
         names = ", ".join(labels)
         lims = ", ".join(f"{lab} {p.w_max * 100:.3g} % w/w" for lab, p in zip(labels, pairs))
+        which = ("this solution lies" if mask.shape[0] == 1
+                 else f"{int(mask.sum())} of the compositions lie")
         cav.append(Caveat("beyond-data",
-                          f"{names}: {int(mask.sum())} composition(s) lie more than "
+                          f"{names}: {which} more than "
                           f"{(BEYOND_DATA_MARGIN - 1) * 100:.0f} % past the published data the "
                           f"activity model was fitted to (in water alone: {lims}); values that "
-                          "depend on the solvent activity are not reported there",
+                          "depend on the solvent activity are not reported",
                           labels[0], {"margin": BEYOND_DATA_MARGIN}))
     return mask, cav
 
