@@ -311,7 +311,7 @@ def _binary_apparent_volume(row: dict, w_s, T):
     1/rho_L(T) − 1/rho_L(T_end), i.e. the excess volume is held at the range end (flagged
     by the range caveat)."""
     w_s, T = np.broadcast_arrays(np.asarray(w_s, dtype=float), np.asarray(T, dtype=float))
-    T_end = np.clip(T, float(row["T_min_C"]) + 273.15, float(row["T_max_C"]) + 273.15)
+    T_end = np.clip(T, float(row["T_min_K"]), float(row["T_max_K"]))
     v = _binary_apparent_volume_in_range(row, w_s, T_end)
     key = row["solute"]
     if key in _liquid_table() and np.any(T != T_end):
@@ -424,7 +424,8 @@ def _ideal_nonaqueous(comp: Composition, T) -> DensityResult:
 def _range_caveats(name: str, row: dict, w_s, T) -> list[Caveat]:
     out = []
     t = np.atleast_1d(np.asarray(T, dtype=float)) - 273.15
-    tmin, tmax, wmax = float(row["T_min_C"]), float(row["T_max_C"]), float(row["w_max"])
+    tmin, tmax, wmax = (float(row["T_min_K"]) - 273.15, float(row["T_max_K"]) - 273.15,
+                        float(row["w_max"]))
     if np.any(t < tmin - 0.5) or np.any(t > tmax + 0.5):
         extra = ""
         if row["form"] == "vapp_poly":

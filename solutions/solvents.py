@@ -143,7 +143,7 @@ def _antoine_table() -> dict[str, tuple[AntoineCoefficients, ...]]:
         name = _normalise(row["solvent"])
         table.setdefault(name, []).append(AntoineCoefficients(
             solvent=name, A=float(row["A"]), B=float(row["B"]), C=float(row["C"]),
-            Tmin_K=float(row["Tmin_K"]), Tmax_K=float(row["Tmax_K"]), source=row["source"]))
+            Tmin_K=float(row["T_min_K"]), Tmax_K=float(row["T_max_K"]), source=row["source"]))
     # Rows sorted by range so that the lower-temperature fit wins in an overlap.
     return {k: tuple(sorted(v, key=lambda r: r.Tmin_K)) for k, v in table.items()}
 

@@ -113,7 +113,7 @@ def test_table_shape_and_sources():
         assert row["form"] in ("laliberte", "vapp_poly", "oiml_ethanol", "melinder",
                                "volk_glycerol")
         assert isinstance(row["source"], str) and len(row["source"]) > 20
-        assert float(row["T_min_C"]) <= float(row["T_max_C"])
+        assert float(row["T_min_K"]) <= float(row["T_max_K"])
 
 
 def test_vectorized():

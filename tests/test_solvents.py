@@ -164,7 +164,7 @@ def test_antoine_data_file_is_well_formed():
     """Every Antoine row has a source, Tmin < Tmax, and gives a rising P(T)."""
     for row in _rows("solvents.csv"):
         assert row["source"].strip()
-        assert float(row["Tmin_K"]) < float(row["Tmax_K"])
+        assert float(row["T_min_K"]) < float(row["T_max_K"])
         assert float(row["B"]) > 0
 
 

@@ -95,7 +95,7 @@ def _nist_ethanol_row():
     path = resources.files("solutions.data") / "solvents.csv"
     with path.open(encoding="utf-8") as fh:
         rows = [r for r in csv.DictReader(fh) if r["solvent"] == "ethanol"]
-    return {k: float(rows[0][k]) for k in ("A", "B", "C", "Tmin_K", "Tmax_K")}
+    return {k: float(rows[0][k]) for k in ("A", "B", "C", "T_min_K", "T_max_K")}
 
 
 def test_antoine_refit_recovers_nist_ethanol_coefficients():
@@ -104,7 +104,7 @@ def test_antoine_refit_recovers_nist_ethanol_coefficients():
     A = 5.24677 + 2, B = 1598.673, C = −46.424 + 273.15."""
     n = _nist_ethanol_row()
     assert (n["A"], n["B"], n["C"]) == (5.24677, 1598.673, -46.424)
-    T = np.linspace(n["Tmin_K"], n["Tmax_K"], 15)
+    T = np.linspace(n["T_min_K"], n["T_max_K"], 15)
     P = 1e5 * 10 ** (n["A"] - n["B"] / (T + n["C"]))
     fit = antoine_fit(T[::-1], P[::-1])        # order does not matter
     assert fit.A == pytest.approx(7.24677, rel=1e-7)

@@ -121,7 +121,7 @@ def main() -> None:
         rows.append(dict(solute=key, form="norrish",
                          **{f"K{k + 1}": repr(float(K[k])) for k in range(5)}, b_max=round(float(b.max()), 4),
                          w_max=round(float(wpct.max()) / 100, 4),
-                         T_min_C=round(float(-dT.max()), 2), T_max_C=25.0, source=src))
+                         T_min_K=round(273.15 - float(dT.max()), 2), T_max_K=298.15, source=src))
     pd.DataFrame(rows).to_csv(OUT, index=False)
 
 

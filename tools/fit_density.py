@@ -111,8 +111,8 @@ def main() -> None:
               f"(hold-out {hold * 100:.3f} %)")
         rows.append(dict(solute=key, form="vapp_poly", c0=repr(float(coef[0])), c1=repr(float(coef[1])),
                          c2=repr(float(coef[2])), c3=repr(float(coef[3])),
-                         c4=repr(float(coef[4])) if len(coef) > 4 else "", T_min_C=15.0,
-                         T_max_C=25.0, w_max=round(float(w.max()), 4), source=SOURCE))
+                         c4=repr(float(coef[4])) if len(coef) > 4 else "", T_min_K=288.15,
+                         T_max_K=298.15, w_max=round(float(w.max()), 4), source=SOURCE))
     old = pd.read_csv(OUT)
     new = pd.DataFrame(rows)
     # rows of another form (published T-dependent correlation) keep their form and range
@@ -120,7 +120,7 @@ def main() -> None:
     keep_form = old[(old.form != "vapp_poly") & old.solute.isin(new.solute)]
     for _, r in keep_form.iterrows():
         i = new.index[new.solute == r.solute][0]
-        for col in ("form", "T_min_C", "T_max_C", "w_max"):
+        for col in ("form", "T_min_K", "T_max_K", "w_max"):
             new.loc[i, col] = r[col]
         new.loc[i, "source"] = SOURCE + T_SHIFT_SOURCE.get(r.form, "")
     old = old[(old.form != "vapp_poly") & ~old.solute.isin(new.solute)]

@@ -50,7 +50,7 @@ def load_nonelectrolytes() -> dict[str, NorrishSolute]:
     for r in read_rows(path):
         out[r["solute"]] = NorrishSolute(
             r["solute"], tuple(float(r[f"K{k}"]) for k in range(1, 6)), float(r["b_max"]),
-            float(r["w_max"]), float(r["T_min_C"]) + 273.15, float(r["T_max_C"]) + 273.15,
+            float(r["w_max"]), float(r["T_min_K"]), float(r["T_max_K"]),
             r["source"])
     return out
 
