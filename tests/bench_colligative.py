@@ -4,7 +4,7 @@ public scalar route, with peak memory.
 
     python tests/bench_colligative.py [N]
 
-Prints points per second, the speed ratio, and peak traced memory. Targets (issue):
+Prints points per second, the speed ratio, and peak traced memory. Targets:
 100 000 compositions in under 1 s on one core, at least 50× the per-point loop,
 peak memory under 300 MB.
 """

@@ -58,7 +58,7 @@ def test_freezing_point_against_crc(kind, solute, name, wmax):
 
 def test_calcium_chloride_near_25_percent():
     """CRC 24 % CaCl2 (ΔT 26.04 K, from the CRC table): within 5 % — the one point of the
-    issue's range where the model misses 3 % (documented in the README)."""
+    stated range where the model misses 3 % (documented in the README)."""
     d = crc("electrolytes", "Calcium chloride", 25)
     row = d[d.mass_pct == 24]
     _, dT, _ = freezing_point(binary("CaCl2", row.mass_pct / 100))

@@ -31,7 +31,7 @@ BUILT_IN = {
 @pytest.mark.parametrize("crc, spec", BUILT_IN.items(), ids=list(BUILT_IN))
 def test_density_within_0_3_percent_of_crc_at_20C(crc, spec):
     """CRC Handbook 102nd ed. (2021), Concentrative Properties of Aqueous Solutions, 20 °C:
-    every tabulated density of the built-in solutes within 0.3 % (the issue's target)."""
+    every tabulated density of the built-in solutes within 0.3 % (the project's target)."""
     name, wmax = spec
     d = CRC[(CRC.solute == crc) & (CRC.mass_pct <= wmax) & (CRC.mass_pct < 100)]
     assert len(d) >= 5

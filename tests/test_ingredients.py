@@ -15,7 +15,7 @@ from solutions.ingredients import (M_WATER, AmbiguousIngredientError, _norm, aci
 
 
 def test_library_size_and_required_entries():
-    """The issue's list of ingredients is all present."""
+    """The ingredients formulators weigh every day are all present."""
     lib = default_library()
     assert len(lib) >= 30
     for name in ["water", "ethanol", "isopropanol", "glycerol", "propylene glycol",

@@ -18,7 +18,7 @@ from solutions.colligative import freezing_point  # noqa: E402
 from solutions.composition import Composition  # noqa: E402
 from solutions.ingredients import default_library  # noqa: E402
 
-# (table file, solute in table, library name, max mass %) — the accuracy targets
+# (table file, solute in table, library name, max mass %) — the project's accuracy targets
 CASES = [
     ("electrolytes", "Sodium chloride", "NaCl", 20),
     ("electrolytes", "Potassium chloride", "KCl", 15),
