@@ -79,6 +79,8 @@ class Evaluation:
             return None
         if dilute and self.value(prop) is None:
             return None  # no textbook figure beside a value withheld for want of data
+        if dilute and prop.about == ("boiling",) and len(self.props.partial_pressures or {}) > 1:
+            return None  # K_b b assumes non-volatile solutes: meaningless beside a bubble point
         src = (self.dilute if dilute else self.props) if prop.source == "props" else self
         x = getattr(src, prop.field)
         if x is None:

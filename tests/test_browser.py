@@ -232,6 +232,8 @@ def test_pasted_names_are_shown_as_typed_never_fetched(app_page):
      True),
     ("bad_paste", [("sodium chloride", "0,9", "% w/v"), ("water", "q.s. to 1000", "mL")],
      False),
+    ("sanitizer_70_ethanol", [("ethanol", "70", "% v/v"), ("water", "q.s. to 1000", "mL")],
+     True),
 ])
 def test_screenshots(app_page, name, rows, metric):
     """The page for a demo recipe, a 70 % propylene glycol recipe and a bad paste: no
