@@ -171,16 +171,8 @@ def vapor_pressure_pure(comp: Composition, T):
         if np.any(~hi):
             out = np.where(~hi, supercooled_vapor_pressure(np.where(~hi, T, 260.0)), out)
         return out, []
-    from .solvents import antoine_vapor_pressure
-    name = _solvent_name(comp)
-    try:
-        return np.asarray(antoine_vapor_pressure(T, name), dtype=float), []
-    except OutOfRangeError as exc:
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")
-            p = np.asarray(antoine_vapor_pressure(T, name, extrapolate=True), dtype=float)
-        return p, [Caveat("model-range", f"vapor pressure of {comp.solvent.name}: {exc}; "
-                          "extrapolated", comp.solvent.name)]
+    from .vle import pure_vapor_pressure
+    return pure_vapor_pressure(T, _solvent_name(comp))
 
 
 # ------------------------------------------------------------------ freezing point

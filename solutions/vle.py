@@ -55,44 +55,30 @@ FLASH_CAUTION = ("flash point estimated from vapor–liquid equilibrium (Liaw et
 def volatile_keys() -> tuple[str, ...]:
     """Solute keys whose vapor this module counts (those with a pure vapor-pressure curve)."""
     from . import solvents
-    if hasattr(solvents, "volatile_keys"):
-        return tuple(solvents.volatile_keys())
-    # shim until the solvents module lists them: every non-aqueous Antoine solvent
-    return tuple(k for k in solvents._antoine_table() if k != "water")
+    return tuple(k for k in solvents.volatile_keys() if k != "water")
 
 
 def pure_vapor_pressure(T, key: str):
-    """Vapor pressure of pure liquid ``key`` [Pa] at ``T`` [K], and caveats."""
+    """Vapor pressure of pure liquid ``key`` [Pa] at ``T`` [K] (the cited curves of
+    :func:`solutions.solvents.pure_vapor_pressure`), and a caveat where it is extrapolated."""
     from . import solvents
     T = np.asarray(T, dtype=float)
-    # the solvents module's pure-liquid curves once present; Antoine until then (shim)
-    fn = getattr(solvents, "pure_vapor_pressure", None) or solvents.antoine_vapor_pressure
     try:
-        return np.asarray(fn(T, key), dtype=float), []
+        return np.asarray(solvents.pure_vapor_pressure(T, key), dtype=float), []
     except OutOfRangeError as exc:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            p = np.asarray(fn(T, key, extrapolate=True), dtype=float)
+            p = np.asarray(solvents.pure_vapor_pressure(T, key, extrapolate=True), dtype=float)
         return p, [Caveat("model-range", f"vapor pressure of pure {key}: {exc}; extrapolated",
                           key)]
 
 
-# Pure-liquid closed-cup flash points, a shim until solutions.flammability is merged.
-# Values from memory (International Chemical Safety Cards, closed cup), to be replaced
-# by the flammability module's cited table.
-_FLASH_POINT_PURE_C = {"ethanol": 13.0, "methanol": 12.0, "2-propanol": 12.0,
-                       "acetone": -20.0}
-
-
 def flash_point_pure(key: str) -> float | None:
-    """Closed-cup flash point of pure ``key`` [K], or None when not flammable/unknown."""
+    """Closed-cup flash point of pure ``key`` [K], or None when not flammable or unknown."""
+    from . import flammability
     try:
-        from . import flammability  # type: ignore[attr-defined]
         return float(flammability.flash_point_pure(key))
-    except (ImportError, OSError):   # module or its table not present: shim
-        v = _FLASH_POINT_PURE_C.get(key)
-        return None if v is None else v + 273.15
-    except (KeyError, ValueError):   # not flammable or no data
+    except (KeyError, ValueError):
         return None
 
 

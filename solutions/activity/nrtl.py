@@ -41,6 +41,19 @@ def tau_of_T(a, b, T):
     return a + b / T[..., None, None]
 
 
+def _sums(x, tau, alpha):
+    """Normalised x, τ, G and the sums Σ_k x_k G_kj and (Σ_k x_k τ_kj G_kj) / (Σ_k x_k G_kj)
+    shared by ln γ and g^E."""
+    x = np.atleast_2d(np.asarray(x, dtype=float))
+    x = x / x.sum(axis=-1, keepdims=True)
+    tau = np.asarray(tau, dtype=float)
+    G = np.exp(-np.asarray(alpha, dtype=float) * tau)
+    shape = x.shape[:-1] + G.shape[-2:]
+    den = np.einsum("...k,...kj->...j", x, np.broadcast_to(G, shape))
+    num = np.einsum("...k,...kj->...j", x, np.broadcast_to(tau * G, shape))
+    return x, tau, G, den, num / den
+
+
 def ln_gamma(x, tau, alpha):
     """ln γ_i of every component [1], shape (N, c).
 
@@ -54,26 +67,15 @@ def ln_gamma(x, tau, alpha):
     >>> round(float(g[0, 0]), 6), round(float(g[0, 1]), 6)
     (0.425557, 0.425557)
     """
-    x = np.atleast_2d(np.asarray(x, dtype=float))
-    x = x / x.sum(axis=-1, keepdims=True)
-    tau = np.asarray(tau, dtype=float)
-    G = np.exp(-np.asarray(alpha, dtype=float) * tau)
-    den = np.einsum("...k,...kj->...j", x, np.broadcast_to(G, x.shape[:-1] + G.shape[-2:]))
-    num = np.einsum("...k,...kj->...j", x, np.broadcast_to(tau * G, x.shape[:-1] + G.shape[-2:]))
-    r = num / den                                   # (N, c): the first term, indexed by j
+    x, tau, G, den, r = _sums(x, tau, alpha)        # r (N, c): the first term, indexed by j
     inner = G * (tau - r[..., None, :])             # (N, c, c): G_ij (τ_ij − r_j)
     return r + np.einsum("...j,...ij->...i", x / den, inner)
 
 
 def gibbs_excess(x, tau, alpha):
     """g^E / (R T) [1], shape (N,): Σ_i x_i ln γ_i's first term (the model's definition)."""
-    x = np.atleast_2d(np.asarray(x, dtype=float))
-    x = x / x.sum(axis=-1, keepdims=True)
-    tau = np.asarray(tau, dtype=float)
-    G = np.exp(-np.asarray(alpha, dtype=float) * tau)
-    den = np.einsum("...k,...kj->...j", x, np.broadcast_to(G, x.shape[:-1] + G.shape[-2:]))
-    num = np.einsum("...k,...kj->...j", x, np.broadcast_to(tau * G, x.shape[:-1] + G.shape[-2:]))
-    return np.sum(x * num / den, axis=-1)
+    x, _, _, _, r = _sums(x, tau, alpha)
+    return np.sum(x * r, axis=-1)
 
 
 def ln_gamma_binary(x1, tau12, tau21, alpha):

@@ -187,6 +187,20 @@ def _float(text: str, row: int, column: str) -> float:
                              f"{text!r} is not a number") from None
 
 
+def _tfunction(r: dict, i: int, where: str) -> "TFunction":
+    """The temperature function of one data row (columns ``form``, ``a1`` … ``a8``)."""
+    form = r["form"].strip()
+    if form not in _FORM_NCOEF:
+        raise SolutionsError(f"{where} row {i}: unknown form {form!r}")
+    n = _FORM_NCOEF[form]
+    cells = [r[f"a{k}"] for k in range(1, 9)]
+    if any(x.strip() for x in cells[n:]):
+        raise SolutionsError(f"{where} row {i}: form {form!r} takes {n} coefficients, "
+                             "more are given")
+    return TFunction(form, tuple(_float(x, i, f"a{k + 1}") if x.strip() else 0.0
+                                 for k, x in enumerate(cells[:n])))
+
+
 @lru_cache(maxsize=None)
 def _load(path: str) -> dict[str, PitzerSalt]:
     rows: dict[str, list[tuple[int, dict]]] = {}
@@ -203,16 +217,7 @@ def _load(path: str) -> dict[str, PitzerSalt]:
             if any(r[k] != v for k, v in head.items()):
                 raise SolutionsError(f"{Path(path).name} row {i}: salt {name!r} has "
                                      "inconsistent charges, alphas or b_max between rows")
-            form = r["form"]
-            if form not in _FORM_NCOEF:
-                raise SolutionsError(f"{Path(path).name} row {i}: unknown form {form!r}")
-            n = _FORM_NCOEF[form]
-            raw = [r[f"a{k}"] for k in range(1, 9)]
-            if any(x.strip() for x in raw[n:]):
-                raise SolutionsError(f"{Path(path).name} row {i}: form {form!r} takes {n} "
-                                     "coefficients, more are given")
-            coeffs = tuple(_float(x, i, f"a{k + 1}") if x.strip() else 0.0
-                           for k, x in enumerate(raw[:n]))
+            tf = _tfunction(r, i, Path(path).name)
             if r["param"] not in _PARAMS:
                 raise SolutionsError(f"{Path(path).name} row {i}: unknown parameter "
                                      f"{r['param']!r}")
@@ -222,7 +227,7 @@ def _load(path: str) -> dict[str, PitzerSalt]:
             if r["param"] in s:
                 raise SolutionsError(f"{Path(path).name} row {i}: {r['param']} given twice "
                                      f"for {name} set {r['set']!r}")
-            s[r["param"]] = TFunction(form, coeffs)
+            s[r["param"]] = tf
             if r["source"] not in s["sources"]:
                 s["sources"].append(r["source"])
         sets = []
@@ -710,18 +715,9 @@ def _load_mixing(path: str) -> dict[tuple, MixingParameter]:
             if ions[0] == ions[1] or zi * zj <= 0 or (kind == "psi" and charges[ions[2]] * zi >= 0):
                 raise SolutionsError(f"{name} row {i}: {kind}{ions}: the first two ions must be "
                                      "different ions of one sign (and the third of the other)")
-            form = r["form"].strip()
-            if form not in _FORM_NCOEF:
-                raise SolutionsError(f"{name} row {i}: unknown form {form!r}")
-            n = _FORM_NCOEF[form]
-            cells = [r[f"a{k}"] for k in range(1, 9)]
-            if any(x.strip() for x in cells[n:]):
-                raise SolutionsError(f"{name} row {i}: form {form!r} takes {n} coefficients, "
-                                     "more are given")
-            coeffs = tuple(_float(x, i, f"a{k + 1}") if x.strip() else 0.0
-                           for k, x in enumerate(cells[:n]))
+            tf = _tfunction(r, i, name)
             entry = (r["set"].strip(), _float(r["T_min_K"], i, "T_min_K"),
-                     _float(r["T_max_K"], i, "T_max_K"), TFunction(form, coeffs),
+                     _float(r["T_max_K"], i, "T_max_K"), tf,
                      r["source"].strip())
             key = _mixing_key(kind, ions)
             if any(e[0] == entry[0] for e in raw.get(key, [])[1:]):
