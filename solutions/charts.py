@@ -39,6 +39,9 @@ __all__ = ["Curve", "FACTORS", "concentration_curve", "vapor_pressure_curve",
 
 #: concentration factors of chart (a): 0 (pure solvent) to 2× the recipe's solutes
 FACTORS = np.linspace(0.0, 2.0, 41)
+#: temperature at which chart (a)'s compositions are evaluated [K]; what it draws
+#: (freezing and boiling points) does not depend on it
+T_CURVE = 298.15
 
 #: the dashboard's own palette
 COLORS = {"solution": "#9c3d1f", "solvent": "#2b6a8a", "dilute": "#8a8a72",
@@ -55,18 +58,22 @@ class Curve:
     data: pd.DataFrame
     notes: tuple[str, ...] = field(default=())
 
+    @functools.cached_property
+    def records(self) -> list[dict]:
+        """``data`` as JSON records, as the charts carry them (converted once)."""
+        return _records(self.data)
+
 
 def _notes(caveats) -> tuple[str, ...]:
     return tuple(dict.fromkeys(c.message for c in caveats))
 
 
 # ------------------------------------------------------------------ curve data
-def concentration_curve(comp: Composition, T: float, P: float, model: str,
+def concentration_curve(comp: Composition, P: float, model: str,
                         factors=FACTORS) -> Curve:
     """Freezing point (at 101.325 kPa) and boiling point (at ``P``) against concentration.
 
     comp : the recipe's composition (N = 1)
-    T : temperature of the solution [K] (enters only the properties at T, not shown)
     P : external pressure [Pa] for the boiling point
     model : activity model; the dilute-ideal curve is added beside any other model
     factors : multiples of the recipe's solutes in the same solvent mass [1]
@@ -79,7 +86,9 @@ def concentration_curve(comp: Composition, T: float, P: float, model: str,
     frames, caveats = [], []
     models = [model] + (["dilute"] if model != "dilute" else [])
     for m in models:
-        r = colligative(comps, T, P, m)
+        # freezing and boiling points are found at their own temperatures; the
+        # properties at 25 °C that come with them are not drawn
+        r = colligative(comps, T_CURVE, P, m)
         caveats.extend(r.caveats)
         label = _MODEL_LABEL.get(r.model, r.model)
         for prop, t, dt in (("Freezing point", r.freezing_point, r.freezing_point_depression),
@@ -194,9 +203,11 @@ class DataChart:
         return json.dumps(self.to_dict(), **kwargs)
 
 
-def _chart(kind: str, key: tuple, frames: list[pd.DataFrame]) -> DataChart:
-    """The structure of ``kind``/``key`` with ``frames`` as its datasets."""
-    return DataChart(kind, key, {f"set_{i}": _records(f) for i, f in enumerate(frames)})
+def _chart(kind: str, key: tuple, frames: list) -> DataChart:
+    """The structure of ``kind``/``key`` with ``frames`` (data frames, or records as
+    :attr:`Curve.records` gives them) as its datasets."""
+    return DataChart(kind, key, {f"set_{i}": f if isinstance(f, list) else _records(f)
+                                 for i, f in enumerate(frames)})
 
 
 @functools.lru_cache(maxsize=64)
@@ -261,11 +272,10 @@ def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float
     freezing_C, boiling_C : the recipe's own values [°C], marked at factor 1.
     P_kPa : external pressure of the boiling points [kPa], for the title.
     """
-    df = curve.data
-    models = tuple(dict.fromkeys(df["model"]))
+    models = tuple(dict.fromkeys(curve.data["model"]))
     frames, marked = [], []
     for prop, value in (("Freezing point", freezing_C), ("Boiling point", boiling_C)):
-        frames.append(df[df["property"] == prop])
+        frames.append([r for r in curve.records if r["property"] == prop])
         marked.append(value is not None)
         if value is not None:
             frames.append(pd.DataFrame({"factor": [1.0], "T_C": [value],
@@ -335,7 +345,7 @@ def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] |
     at_note : words added to that mark's label (e.g. "supercooled liquid")
     """
     df = curve.data
-    frames = [df, pd.DataFrame({"p_kPa": [P_kPa],
+    frames = [curve.records, pd.DataFrame({"p_kPa": [P_kPa],
                                 "label": [f"external pressure {P_kPa:g} kPa"]})]
     if boiling:
         frames.append(_boiling_marks_frame(boiling, P_kPa))
@@ -375,7 +385,7 @@ def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
                              width: int | None = None, height: int = 300) -> DataChart:
     """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
     df = curve.data
-    frames = [df, pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
+    frames = [curve.records, pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
                                 "label": [f"external pressure {P_kPa:g} kPa"]})]
     if boiling:
         frames.append(_boiling_marks_frame(boiling, P_kPa))

@@ -26,7 +26,7 @@ def brine():
 @pytest.fixture(scope="module")
 def conc(brine):
     ev, _ = brine
-    return C.concentration_curve(ev.composition, ev.T, ev.P, ev.model)
+    return C.concentration_curve(ev.composition, ev.P, ev.model)
 
 
 @pytest.fixture(scope="module")

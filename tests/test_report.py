@@ -83,7 +83,7 @@ def html(eye_rinse):
                                    "unit": "mL"}]}
     r = read_recipe(RECIPES / "buffered_eye_rinse.csv", default_library())
     ev = evaluate(r, T=298.15)
-    curve = C.concentration_curve(ev.composition, ev.T, ev.P, ev.model, factors=[0, 1, 2])
+    curve = C.concentration_curve(ev.composition, ev.P, ev.model, factors=[0, 1, 2])
     chart = C.concentration_chart(curve, d["solution"]["freezing_point_C"],
                                   d["solution"]["boiling_point_C"])
     return html_report(d, {"Freezing and boiling point against concentration": chart})

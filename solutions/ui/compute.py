@@ -200,23 +200,32 @@ def chart_curves(ev: Evaluation, d: dict) -> dict[str, Curve | str]:
 
     Keys: ``"concentration"`` (chart a) and ``"vapor"`` (charts b and c).
     """
-    out: dict[str, Curve | str] = {}
+    return {"concentration": concentration_curve_of(ev),
+            "vapor": vapor_curve_of(ev, *vapor_pressure_range(d["solution"]))}
+
+
+def concentration_curve_of(ev: Evaluation) -> Curve | str:
+    """Chart (a) of an evaluation, or the reason it cannot be drawn. It does not depend on
+    the solution temperature (freezing and boiling points are found at their own)."""
     try:
-        out["concentration"] = concentration_curve(ev.composition, ev.T, ev.P, ev.model)
+        return concentration_curve(ev.composition, ev.P, ev.model)
     except SolutionsError as exc:
-        out["concentration"] = str(exc)
+        return str(exc)
     except Exception:  # noqa: BLE001
         _log.exception("concentration curve")
-        out["concentration"] = INTERNAL.format(what="computing this chart")
+        return INTERNAL.format(what="computing this chart")
+
+
+def vapor_curve_of(ev: Evaluation, lo: float, hi: float) -> Curve | str:
+    """Charts (b) and (c) of an evaluation from ``lo`` to ``hi`` [K], or the reason they
+    cannot be drawn (see :func:`solutions.charts.vapor_pressure_range` for the span)."""
     try:
-        lo, hi = vapor_pressure_range(d["solution"])
-        out["vapor"] = vapor_pressure_curve(ev.composition, ev.model, lo, hi)
+        return vapor_pressure_curve(ev.composition, ev.model, lo, hi)
     except SolutionsError as exc:
-        out["vapor"] = str(exc)
+        return str(exc)
     except Exception:  # noqa: BLE001
         _log.exception("vapor-pressure curve")
-        out["vapor"] = INTERNAL.format(what="computing this chart")
-    return out
+        return INTERNAL.format(what="computing this chart")
 
 
 def boiling_marks(d: dict, curve: Curve) -> dict[str, float]:

@@ -26,19 +26,19 @@ DESIGN_TOOLS = {"target": "Target: solve for an amount",
                 "dilute": "Dilution from stock"}
 
 
-@st.cache_resource(show_spinner=False, max_entries=32)
+@st.cache_resource(show_spinner=False, max_entries=32, hash_funcs=S.HASH_FUNCS)
 def target_for(key: S.PageKey, req: tuple) -> D.TargetOutcome:
     lib, _ = library_for(key.token)
     return D.solve_request(page_for(key).read, key.table(), D.TargetRequest(*req), lib,
                            key.cond)
 
 
-@st.cache_resource(show_spinner=False, max_entries=32)
+@st.cache_resource(show_spinner=False, max_entries=32, hash_funcs=S.HASH_FUNCS)
 def weigh_for(key: S.PageKey, batch_text: str) -> D.WeighOutcome:
     return D.weigh_out_sheet(page_for(key).read, batch_text, key.cond)
 
 
-@st.cache_resource(show_spinner=False, max_entries=32)
+@st.cache_resource(show_spinner=False, max_entries=32, hash_funcs=S.HASH_FUNCS)
 def dilution_for(key: S.PageKey, req: tuple) -> D.DilutionOutcome:
     lib, _ = library_for(key.token)
     return D.plan_dilution(page_for(key).read, D.DilutionRequest(*req), lib, key.cond)

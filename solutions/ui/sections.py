@@ -14,17 +14,21 @@ mutates them.
 """
 from __future__ import annotations
 
+import dataclasses
 import functools
+import hashlib
+import json
 import logging
 
 import streamlit as st
 
 from .. import __version__
-from ..charts import Curve
+from ..charts import Curve, vapor_pressure_range
 from ..report import html_report, json_text, property_text, summary_csv
 from . import state as S
-from .compute import (CAPTIONS, PageResult, below_freezing, chart_curves, chart_specs,
-                      evaluate_table, report_charts, report_dict)
+from .compute import (CAPTIONS, PageResult, below_freezing, chart_specs,
+                      concentration_curve_of, evaluate_table, report_charts, report_dict,
+                      vapor_curve_of)
 from .safe import MAX_CELL_CHARS, MAX_ROWS, max_upload_bytes, plain, plain_frame
 from .tables import (BASES, COLUMN_HELP, EDITOR_COLUMNS, composition_frame, headline,
                      property_frame, solvent_words, sort_cautions)
@@ -60,19 +64,37 @@ def library_for(token: str):
     return S.build_library(token)
 
 
-@st.cache_resource(show_spinner=False, max_entries=256)
+@st.cache_resource(show_spinner=False, max_entries=256, hash_funcs=S.HASH_FUNCS)
 def page_for(key: S.PageKey) -> PageResult:
     lib, _ = library_for(key.token)
     return evaluate_table(key.table(), lib, key.cond, decimal=key.decimal, name=key.name)
 
 
-@st.cache_resource(show_spinner=False, max_entries=128)
 def curves_for(key: S.PageKey) -> dict:
+    """The curve data of the page's charts (see :func:`~solutions.ui.compute.chart_curves`).
+    What they draw does not depend on the solution temperature, so they are cached under
+    the page key without it (the vapor curves also under their span): a change of
+    temperature redraws the marks only."""
     page = page_for(key)
-    return chart_curves(page.evaluation, page.d) if page.ok else {}
+    if not page.ok:
+        return {}
+    unheated = dataclasses.replace(key, cond=dataclasses.replace(key.cond, T_C=None))
+    lo, hi = vapor_pressure_range(page.d["solution"])
+    return {"concentration": _concentration_curve(unheated, page.evaluation),
+            "vapor": _vapor_curve(unheated, lo, hi, page.evaluation)}
 
 
-@st.cache_resource(show_spinner=False, max_entries=128)
+@st.cache_resource(show_spinner=False, max_entries=128, hash_funcs=S.HASH_FUNCS)
+def _concentration_curve(key: S.PageKey, _ev):   # _ev: not hashed, it follows from key
+    return concentration_curve_of(_ev)
+
+
+@st.cache_resource(show_spinner=False, max_entries=128, hash_funcs=S.HASH_FUNCS)
+def _vapor_curve(key: S.PageKey, lo: float, hi: float, _ev):
+    return vapor_curve_of(_ev, lo, hi)
+
+
+@st.cache_resource(show_spinner=False, max_entries=128, hash_funcs=S.HASH_FUNCS)
 def charts_for(key: S.PageKey) -> dict:
     """The page's charts as Vega-Lite specifications, built once per page key, their
     datasets already in the Arrow form Streamlit sends (it takes bytes as they are, so a
@@ -82,22 +104,34 @@ def charts_for(key: S.PageKey) -> dict:
 
 
 def _arrow_datasets(spec: dict) -> dict:
-    try:   # Streamlit's own converter; without it the records are sent as they are
-        from streamlit.dataframe_util import convert_anything_to_arrow_bytes
-    except ImportError:  # pragma: no cover - another Streamlit version
-        return spec
-    import pandas as pd
-    return {**spec, "datasets": {k: convert_anything_to_arrow_bytes(pd.DataFrame(v))
+    return {**spec, "datasets": {k: _arrow_bytes(_digest(v), v)
                                  for k, v in spec.get("datasets", {}).items()}}
 
 
-@st.cache_data(show_spinner=False, max_entries=16)
+def _digest(records: list) -> str:
+    return hashlib.blake2b(json.dumps(records).encode(), digest_size=16).hexdigest()
+
+
+@st.cache_resource(show_spinner=False, max_entries=512)
+def _arrow_bytes(digest: str, _records: list):
+    """One chart dataset in the Arrow form Streamlit sends, keyed by a digest of its
+    content: a curve that did not change is not converted again when only the marks
+    moved."""
+    try:   # Streamlit's own converter; without it the records are sent as they are
+        from streamlit.dataframe_util import convert_anything_to_arrow_bytes
+    except ImportError:  # pragma: no cover - another Streamlit version
+        return _records
+    import pandas as pd
+    return convert_anything_to_arrow_bytes(pd.DataFrame(_records))
+
+
+@st.cache_data(show_spinner=False, max_entries=16, hash_funcs=S.HASH_FUNCS)
 def html_for(key: S.PageKey) -> str:
     page = page_for(key)
     return html_report(report_dict(page), report_charts(page, curves_for(key)))
 
 
-@st.cache_resource(show_spinner=False, max_entries=256)
+@st.cache_resource(show_spinner=False, max_entries=256, hash_funcs=S.HASH_FUNCS)
 def frames_for(key: S.PageKey, bases: tuple) -> tuple:
     """The property and composition tables of a page, escaped for display (cached: they
     are rebuilt only when the page or the bases shown change)."""
@@ -355,30 +389,33 @@ def render_downloads(key: S.PageKey, page: PageResult) -> None:
 
 # ------------------------------------------------------------------ other tools
 #: (tab title, module under solutions.ui, function): sections drawn by their own modules
-TOOLS = [("Gas in solution", "gas", "render_gas"),
-         ("Partition between liquids", "partition", "render_partition"),
-         ("Vapor-pressure fit", "vpfit", "render_vpfit")]
-
-
 def render_tools(page: PageResult | None = None) -> None:
-    """One tab per tool module that imports; a tool that fails shows a plain message. A tool
-    that works on the recipe (its function takes ``recipe``) gets the page's recipe."""
+    """The tools below the recipe, one at a time: only the tool the user picks is drawn
+    (and computed), so a rerun of the recipe does no work for tools nobody opened. A tool
+    that fails shows a plain message. A tool that works on the recipe (its function takes
+    ``recipe``) gets the page's recipe."""
     import importlib
     import inspect
-    found = []
-    for title, mod, fn in TOOLS:
+    found = {}
+    for title, mod, fn, _ in S.TOOLS:
         try:
-            found.append((title, getattr(importlib.import_module(f"solutions.ui.{mod}"), fn)))
+            found[title] = getattr(importlib.import_module(f"solutions.ui.{mod}"), fn)
         except (ImportError, AttributeError):
             continue
     if not found:
         return
     st.divider()
     st.header("More tools")
+    title = st.segmented_control("Tool", list(found), key="more_tool",
+                                 label_visibility="collapsed")
+    if title is None:
+        st.caption("Choose a tool above: the gas a solution holds and the pressure of a "
+                   "sealed container, how a preservative splits between oil and water, or "
+                   "a fit of measured vapor pressures.")
+        return
+    fn = found[title]
     recipe = page.read.recipe if page is not None and page.read is not None else None
-    for tab, (title, fn) in zip(st.tabs([t for t, _ in found]), found):
-        with tab:
-            if "recipe" in inspect.signature(fn).parameters:
-                guarded(title, fn, st, recipe)
-            else:
-                guarded(title, fn, st)
+    if "recipe" in inspect.signature(fn).parameters:
+        guarded(title, fn, st, recipe)
+    else:
+        guarded(title, fn, st)

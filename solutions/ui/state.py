@@ -7,6 +7,8 @@ widgets are the keys of :data:`DEFAULTS`.
 from __future__ import annotations
 
 import dataclasses
+import functools
+import hashlib
 import io
 import json
 from dataclasses import dataclass
@@ -198,11 +200,21 @@ class PageKey:
     decimal: str = "."
     name: str = ""
 
+    @functools.cached_property
+    def digest(self) -> str:
+        """A short digest of every field: what the page's caches hash (Streamlit would
+        otherwise convert the whole key to a dict and hash it field by field each run)."""
+        return hashlib.blake2b(repr(self).encode(), digest_size=16).hexdigest()
+
     def table(self) -> pd.DataFrame:
         """The recipe table back from its CSV text (every cell a string)."""
         return pd.read_csv(io.StringIO(self.table_csv), dtype=str,
                            keep_default_na=False).reindex(columns=EDITOR_COLUMNS,
                                                           fill_value="")
+
+
+#: ``hash_funcs`` of every cache keyed by a :class:`PageKey`
+HASH_FUNCS = {PageKey: lambda key: key.digest}
 
 
 def page_key(state: MutableMapping, table: pd.DataFrame) -> PageKey:
@@ -221,10 +233,25 @@ KEPT_WIDGETS = ("design_tool", "tg_vary", "tg_add", "tg_property", "tg_component
                 *(f"tg_value_{k}" for k in TARGET_CHOICES))
 
 
+#: "More tools": (title, module of solutions.ui, function, prefix of its widget keys).
+#: Only the tool the user picks is drawn, so the inputs of the others are kept as above
+#: (file uploaders and chart selections cannot be written and are not kept).
+TOOLS = (("Gas in solution", "gas", "render_gas", "gas_"),
+         ("Partition between liquids", "partition", "render_partition", "pt_"),
+         ("Vapor-pressure fit", "vpfit", "render_vpfit", "vp_"))
+NOT_WRITABLE = ("vp_upload",)
+
+
 def keep_widget_values(state: MutableMapping) -> None:
-    """Write every :data:`KEPT_WIDGETS` value back into ``state`` (see there)."""
-    for k in KEPT_WIDGETS:
+    """Write every :data:`KEPT_WIDGETS` value, and the inputs of the tools not shown in
+    this run (see :data:`TOOLS`), back into ``state``."""
+    for k in KEPT_WIDGETS + ("more_tool",):
         if k in state:
+            state[k] = state[k]
+    hidden = tuple(prefix for title, _, _, prefix in TOOLS if title != state.get("more_tool"))
+    for k in list(state.keys()):
+        if (isinstance(k, str) and k.startswith(hidden) and k not in NOT_WRITABLE
+                and "chart" not in k):
             state[k] = state[k]
 
 

@@ -60,12 +60,10 @@ def _text(v) -> str:
 
 def clean_table(df: pd.DataFrame) -> pd.DataFrame:
     """The editor's frame with every recipe column present, as text, on a plain index."""
-    out = pd.DataFrame(index=range(len(df)))
-    src = df.reset_index(drop=True)
-    for c in EDITOR_COLUMNS:
-        out[c] = pd.Series([_text(v) for v in src[c]] if c in src.columns
-                           else [""] * len(src), index=out.index, dtype=object)
-    return out
+    n = len(df)
+    return pd.DataFrame({c: ([_text(v) for v in df[c].tolist()] if c in df.columns
+                             else [""] * n) for c in EDITOR_COLUMNS},
+                        index=range(n), dtype=object)
 
 
 def _to_editor(df: pd.DataFrame) -> tuple[pd.DataFrame, list[str]]:
