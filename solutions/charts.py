@@ -24,6 +24,7 @@ from __future__ import annotations
 import copy
 import functools
 import json
+import math
 from dataclasses import dataclass, field
 
 import altair as alt
@@ -278,19 +279,25 @@ def concentration_chart(curve: Curve, freezing_C: float | None, boiling_C: float
         frames.append([r for r in curve.records if r["property"] == prop])
         marked.append(value is not None)
         if value is not None:
-            frames.append(pd.DataFrame({"factor": [1.0], "T_C": [value],
-                                        "label": ["this recipe"]}))
+            frames.append(_marks(factor=1.0, T_C=value, label="this recipe"))
     return _chart("concentration", (models, tuple(marked), float(P_kPa), width, height),
                   frames)
 
 
-def _boiling_marks_frame(boiling: dict[str, float], P_kPa: float) -> pd.DataFrame:
-    marks = pd.DataFrame({"series": list(boiling), "T_C": list(boiling.values()),
-                          "p_kPa": P_kPa})
-    marks["inv_T"] = 1000.0 / (marks["T_C"] + 273.15)
-    marks["ln_p"] = np.log(marks["p_kPa"])
-    marks["label"] = [f"boils at {t:.2f} °C" for t in marks["T_C"]]
-    return marks
+def _boiling_marks_frame(boiling: dict[str, float], P_kPa: float) -> list[dict]:
+    return [_mark(series=k, T_C=t, p_kPa=P_kPa, inv_T=1000.0 / (t + 273.15),
+                  ln_p=math.log(P_kPa), label=f"boils at {t:.2f} °C")
+            for k, t in boiling.items()]
+
+
+def _mark(**fields) -> dict:
+    """One record of a chart's marks (a non-finite number becomes null, as in JSON)."""
+    return {k: (None if isinstance(v, float) and not math.isfinite(v) else v)
+            for k, v in fields.items()}
+
+
+def _marks(**fields) -> list[dict]:
+    return [_mark(**fields)]
 
 
 def _boiling_marks(data: alt.NamedData, x: str, y: str):
@@ -345,16 +352,16 @@ def vapor_pressure_chart(curve: Curve, P_kPa: float, boiling: dict[str, float] |
     at_note : words added to that mark's label (e.g. "supercooled liquid")
     """
     df = curve.data
-    frames = [curve.records, pd.DataFrame({"p_kPa": [P_kPa],
-                                "label": [f"external pressure {P_kPa:g} kPa"]})]
+    frames = [curve.records, _marks(p_kPa=float(P_kPa),
+                                    label=f"external pressure {P_kPa:g} kPa")]
     if boiling:
         frames.append(_boiling_marks_frame(boiling, P_kPa))
     has_here = at_T is not None and all(v is not None for v in at_T)
     if has_here:
-        frames.append(pd.DataFrame({
-            "T_C": [at_T[0]], "p_kPa": [at_T[1]],
-            "label": [f"at {at_T[0]:g} °C{f' ({at_note})' if at_note else ''}: "
-                      f"{at_T[1]:.4g} kPa"]}))
+        frames.append(_marks(
+            T_C=float(at_T[0]), p_kPa=float(at_T[1]),
+            label=f"at {at_T[0]:g} °C{f' ({at_note})' if at_note else ''}: "
+                  f"{at_T[1]:.4g} kPa"))
     key = (tuple(dict.fromkeys(df["series"])), bool(boiling), has_here, width, height)
     return _chart("vapor", key, frames)
 
@@ -385,8 +392,8 @@ def clausius_clapeyron_chart(curve: Curve, P_kPa: float,
                              width: int | None = None, height: int = 300) -> DataChart:
     """Chart (c): ln(p / kPa) against 1000/T, the Clausius–Clapeyron view of chart (b)."""
     df = curve.data
-    frames = [curve.records, pd.DataFrame({"ln_p": [float(np.log(P_kPa))],
-                                "label": [f"external pressure {P_kPa:g} kPa"]})]
+    frames = [curve.records, _marks(ln_p=math.log(P_kPa),
+                                    label=f"external pressure {P_kPa:g} kPa")]
     if boiling:
         frames.append(_boiling_marks_frame(boiling, P_kPa))
     key = (tuple(dict.fromkeys(df["series"])), bool(boiling), width, height)

@@ -19,6 +19,7 @@ import functools
 import hashlib
 import json
 import logging
+import threading
 
 import streamlit as st
 
@@ -109,7 +110,22 @@ def _arrow_datasets(spec: dict) -> dict:
 
 
 def _digest(records: list) -> str:
-    return hashlib.blake2b(json.dumps(records).encode(), digest_size=16).hexdigest()
+    """A digest of a dataset's content; the curves' datasets are the same list objects
+    from run to run (:attr:`solutions.charts.Curve.records`), so theirs are kept."""
+    known = _DIGESTS.get(id(records))
+    if known is not None and known[0] is records:
+        return known[1]
+    digest = hashlib.blake2b(json.dumps(records).encode(), digest_size=16).hexdigest()
+    if len(records) > 4:
+        with _DIGESTS_LOCK:   # sessions run in threads of one process
+            if len(_DIGESTS) >= 512:
+                _DIGESTS.pop(next(iter(_DIGESTS)))
+            _DIGESTS[id(records)] = (records, digest)
+    return digest
+
+
+_DIGESTS: dict[int, tuple[list, str]] = {}
+_DIGESTS_LOCK = threading.Lock()
 
 
 @st.cache_resource(show_spinner=False, max_entries=512)
