@@ -10,6 +10,7 @@ gas RECIPE           dissolved gas: carbonation, dissolved oxygen, sealed headsp
 ingredients [TEXT]   list the ingredient library, or search it and show what data it holds
 partition            where a preservative goes in an emulsion (oil, water, free un-ionized)
 fit-vapor-pressure   Clausius–Clapeyron and Antoine fits of measured vapor pressures
+serve                the dashboard for a team: several page servers behind one address
 
 Exit status: 0 success, 2 bad input (message on stderr), 3 target not reachable.
 Temperatures are °C and pressures kPa on the command line; the library is SI inside.
@@ -158,6 +159,16 @@ def build_parser() -> argparse.ArgumentParser:
                     help="also give the boiling point at this pressure, e.g. '50 kPa' "
                          "(bare number: kPa)")
     vp.add_argument("--json", action="store_true")
+
+    sv = sub.add_parser("serve", help="the dashboard for a team: several page servers "
+                                      "behind one address")
+    sv.add_argument("--workers", default="2",
+                    help="page servers to start (default 2: one per core of a 2-core "
+                         "machine; 1 to 8)")
+    sv.add_argument("--port", default="8501", help="port of the page (default 8501)")
+    sv.add_argument("--address", default="127.0.0.1",
+                    help="address to listen on (default 127.0.0.1: this machine only; "
+                         "0.0.0.0 lets the lab network in — your site's rules apply)")
     return ap
 
 
@@ -567,9 +578,20 @@ def cmd_fit_vapor_pressure(args) -> int:
     return 0
 
 
+def cmd_serve(args) -> int:
+    workers, port = _number("--workers", args.workers), _number("--port", args.port)
+    if workers != int(workers) or not 1 <= workers <= 8:
+        raise OptionError("--workers", args.workers, "a whole number from 1 to 8 is needed")
+    if port != int(port) or not 1 <= port <= 65535:
+        raise OptionError("--port", args.port, "a port number from 1 to 65535 is needed")
+    from .ui.serve import serve
+    return serve(int(workers), int(port), args.address)
+
+
 COMMANDS = {"evaluate": cmd_evaluate, "target": cmd_target, "scale": cmd_scale,
             "dilute": cmd_dilute, "gas": cmd_gas, "ingredients": cmd_ingredients,
-            "partition": cmd_partition, "fit-vapor-pressure": cmd_fit_vapor_pressure}
+            "partition": cmd_partition, "fit-vapor-pressure": cmd_fit_vapor_pressure,
+            "serve": cmd_serve}
 
 
 def main(argv=None) -> int:

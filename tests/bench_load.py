@@ -1,9 +1,11 @@
 """Load benchmark of the dashboard through its own websocket protocol (a script, not a test).
 
     python tests/bench_load.py [--sessions 1 10 20] [--edits 5] [--timeout 60] [--warm]
-                               [--think SECONDS]
+                               [--think SECONDS] [--workers K]
 
-Starts ``streamlit run streamlit_app.py`` on a free loopback port (127.0.0.1 only), then
+Starts ``streamlit run streamlit_app.py`` on a free loopback port (127.0.0.1 only), or
+with ``--workers K`` the team server ``python -m solutions serve --workers K`` (K page
+servers behind one front, :mod:`solutions.ui.serve`), then
 for each N opens N browser-like sessions on ``/_stcore/stream``: each sends the first
 run request a browser sends, waits for the page, then makes ``--edits`` edits of the
 solution temperature (a different value per session and edit, so every edit is a cache
@@ -12,7 +14,8 @@ alternate between two shared values, so the updates are cache hits and measure t
 itself; with ``--think`` each session pauses, as a person reading the page would, before
 each edit). The edit-to-update latency
 is the time from sending the new widget value to the server's "script finished"
-message. Prints the median and 90th percentile per N and the server's resident memory.
+message. Prints the median and 90th percentile per N and the resident memory of the
+server (with ``--workers``, of the front and its page servers together).
 Every wait is bounded by ``--timeout`` seconds; the server is stopped by its pid.
 
 The messages are Streamlit's own protobufs (``BackMsg`` with a ``ClientState``,
@@ -51,13 +54,26 @@ def rss_mb(pid: int) -> float:
     return float("nan")
 
 
-def start_server(port: int) -> subprocess.Popen:
-    cmd = [sys.executable, "-m", "streamlit", "run", str(ROOT / "streamlit_app.py"),
-           "--server.port", str(port), "--server.address", "127.0.0.1",
-           "--server.headless", "true", "--browser.gatherUsageStats", "false"]
+def tree_rss_mb(pid: int) -> float:
+    """Resident memory of ``pid`` and its children [MB]."""
+    total = rss_mb(pid)
+    for child in Path(f"/proc/{pid}/task").glob("*/children"):
+        for c in child.read_text().split():
+            total += tree_rss_mb(int(c))
+    return total
+
+
+def start_server(port: int, workers: int = 0) -> subprocess.Popen:
+    if workers:
+        cmd = [sys.executable, "-m", "solutions", "serve", "--workers", str(workers),
+               "--port", str(port)]
+    else:
+        cmd = [sys.executable, "-m", "streamlit", "run", str(ROOT / "streamlit_app.py"),
+               "--server.port", str(port), "--server.address", "127.0.0.1",
+               "--server.headless", "true", "--browser.gatherUsageStats", "false"]
     proc = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.DEVNULL,
                             stderr=subprocess.DEVNULL)
-    deadline = time.time() + 60
+    deadline = time.time() + 120
     while time.time() < deadline:
         try:
             with urllib.request.urlopen(f"http://127.0.0.1:{port}/_stcore/health",
@@ -67,7 +83,7 @@ def start_server(port: int) -> subprocess.Popen:
         except OSError:
             time.sleep(0.2)
     proc.terminate()
-    raise SystemExit("the server did not answer its health check within 60 s")
+    raise SystemExit("the server did not answer its health check within 120 s")
 
 
 class Session:
@@ -173,6 +189,9 @@ def main(argv=None) -> int:
     ap.add_argument("--think", type=float, default=0.0,
                     help="mean seconds a session waits before each edit (0: edits back "
                          "to back, the worst case)")
+    ap.add_argument("--workers", type=int, default=0,
+                    help="run the team server with this many page servers (0: one plain "
+                         "Streamlit server)")
     ap.add_argument("--warm", action="store_true",
                     help="every session alternates between the same two temperatures, so "
                          "after the first edits every update is a cache hit (the cost of "
@@ -181,20 +200,29 @@ def main(argv=None) -> int:
     if max(args.sessions) > 50 or args.edits > 50:
         raise SystemExit("at most 50 sessions and 50 edits per session")
     port = free_port()
-    proc = start_server(port)
+    if not 0 <= args.workers <= 8:
+        raise SystemExit("--workers: 0 to 8")
+    proc = start_server(port, args.workers)
     try:
         print(f"server pid {proc.pid} on 127.0.0.1:{port}; {os.cpu_count()} CPU(s); "
+              + (f"{args.workers} page servers behind the front; " if args.workers else
+                 "one Streamlit server; ") +
               f"think {args.think:g} s; "
               f"{args.edits} edits per session of the solution temperature, "
               + ("alternating between two values shared by all sessions (cache hits)"
                  if args.warm else "each a new value (a cache miss)"))
         print(f"{'N':>3} {'first page med (s)':>19} {'edit med (s)':>13} "
-              f"{'edit p90 (s)':>13} {'edits':>6} {'server RSS (MB)':>16}")
+              f"{'edit p90 (s)':>13} {'edits':>6} {'server RSS (MB)':>16} "
+              f"{'this client CPU (s)':>20} {'wall (s)':>9}")
         for n in args.sessions:
+            c0, w0 = time.process_time(), time.perf_counter()
             first, lat = asyncio.run(drive(port, n, args.edits, args.timeout, args.warm,
                                            args.think))
             print(f"{n:>3} {statistics.median(first):>19.2f} {statistics.median(lat):>13.2f} "
-                  f"{pct(lat, 0.9):>13.2f} {len(lat):>6} {rss_mb(proc.pid):>16.0f}")
+                  f"{pct(lat, 0.9):>13.2f} {len(lat):>6} {tree_rss_mb(proc.pid):>16.0f} "
+                  f"{time.process_time() - c0:>20.1f} {time.perf_counter() - w0:>9.1f}")
+        print("(the sessions are driven from this machine: the client's CPU time is taken "
+              "from the same cores as the server's)")
     finally:
         proc.terminate()
         try:
