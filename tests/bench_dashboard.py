@@ -10,6 +10,9 @@ water, a stress case for the page, not a product). Three figures:
   (:func:`~solutions.ui.compute.chart_curves`) and the chart specifications
   (:func:`~solutions.ui.compute.chart_specs`: Altair ``to_dict``, schema-checked once
   per chart kind);
+* **temperature change** — the same recipe at another temperature: the evaluation and
+  the chart specifications again, the chart data reused (what the charts draw does not
+  depend on the solution temperature; the page caches it without it);
 * **warm rerun** (a widget that changes nothing computed, e.g. ticking a basis) — the
   page key, the frames the page shows, escaped for Markdown, the CSV and JSON downloads;
   the cached results are reused as the app reuses them;
@@ -93,6 +96,12 @@ def main(argv=None) -> int:
     def evaluate_only():
         evaluate_table(table, lib, cond, name=name)
 
+    hotter = Conditions(model=args.model, T_C=37.0)
+
+    def temperature_change():
+        page = evaluate_table(table, lib, hotter, name=name)
+        chart_specs(page, out["curves"])
+
     def curves_only():
         chart_curves(out["page"].evaluation, out["page"].d)
 
@@ -121,6 +130,7 @@ def main(argv=None) -> int:
     curve_ms = median_ms(curves_only, args.repeat)
     spec_ms = median_ms(specs_only, args.repeat)
     warm_ms = median_ms(warm, args.repeat * 4)
+    hot_ms = median_ms(temperature_change, args.repeat)
     weigh_ms = median_ms(weigh, args.repeat)
     bad = [k for k, v in out["curves"].items() if isinstance(v, str)]
     print(f"recipe: {name} ({len(table)} rows), model {args.model}, "
@@ -130,6 +140,7 @@ def main(argv=None) -> int:
     print(f"  read + evaluate:                     {ev_ms:8.1f} ms")
     print(f"  chart data, 3 charts:                {curve_ms:8.1f} ms")
     print(f"  chart specifications (not revalidated): {spec_ms:5.1f} ms")
+    print(f"temperature change (chart data reused): {hot_ms:6.1f} ms")
     print(f"warm rerun (caches hit):               {warm_ms:8.1f} ms")
     print(f"weigh-out sheet (only when shown):     {weigh_ms:8.1f} ms")
     if bad:
