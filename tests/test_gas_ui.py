@@ -1,4 +1,6 @@
 """Dashboard gas section: what the page shows equals a library call; charts are drawn."""
+from pathlib import Path
+
 import pytest
 from streamlit.testing.v1 import AppTest
 
@@ -68,3 +70,23 @@ def test_answer_and_charts_without_streamlit():
     assert "layer" in spec1 and "layer" in spec2
     assert "rating" in str(spec2)
     assert len(result_frame(ans.result)) == 16
+
+
+def test_tools_on_the_full_page_are_drawn_only_when_picked():
+    """On the whole page, "More tools" draws nothing until a tool is picked; the gas tool
+    then shows the library's answer for the page's recipe, and its inputs survive a visit
+    to another tool (a tool not drawn would otherwise forget them)."""
+    at = AppTest.from_file(str(Path(__file__).resolve().parents[1] / "streamlit_app.py"),
+                           default_timeout=120).run()
+    assert not at.exception
+    charts_without_tools = len(at.get("vega_lite_chart"))
+    assert not [n for n in at.number_input if n.key and n.key.startswith("gas_")]
+    at.button_group(key="more_tool").set_value("Gas in solution").run()
+    assert len(at.get("vega_lite_chart")) == charts_without_tools + 2
+    at.number_input(key="gas_rating").set_value(100.0).run()
+    assert any("exceeds the stated container rating" in w.value for w in at.warning)
+    at.button_group(key="more_tool").set_value("Vapor-pressure fit").run()
+    assert not [n for n in at.number_input if n.key and n.key.startswith("gas_")]
+    at.button_group(key="more_tool").set_value("Gas in solution").run()
+    assert at.number_input(key="gas_rating").value == 100.0
+    assert not at.exception
