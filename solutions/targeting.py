@@ -51,8 +51,7 @@ from .evaluate import Evaluation, evaluate
 from .ingredients import Library, default_library
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
                      parse_quantity, resolve, solvent_row, with_number)
-from .concentration import CONCENTRATION_BASES as _CONC_BASES, in_basis
-from .density import solvent_density
+from .concentration import CONCENTRATION_BASES as _CONC_BASES, component_concentration
 from .isotonic import ISOTONIC_NACL_G_PER_100ML, ISOTONIC_OSMOLALITY, e_value_isotonic
 from .limits import e_values, eutectic, solubility_limit
 from .properties import targets as registry_targets
@@ -220,25 +219,6 @@ _NUM_UNIT = re.compile(r"^\s*(?P<num>[-+]?[0-9]*[.,]?[0-9]+(?:[eE][-+]?[0-9]+)?)
 
 
 # ---------------------------------------------------------------------------- measuring
-def component_concentration(res: ResolvedRecipe, row_id: int, amount: Amount, rho: float) -> float:
-    """Concentration of recipe row ``row_id`` in ``amount.basis`` [SI of the basis], at solution
-    density ``rho`` [kg/m³]; mass bases count the form as weighed (as the evaluate output), the
-    solvent row counts all the solvent."""
-    c = res.composition
-    m_tot = float(c.m_total[0])
-    if res.solvent_row is not None and res.solvent_row.row == row_id:
-        ing = res.solvent_row.ingredient
-        m = float(c.m_solvent[0])
-        n = m / ing.M
-        rho_i = solvent_density(c, res.T_prep)
-    else:
-        j = next(i for i, r in enumerate(res.solute_rows) if r.row == row_id)
-        ing = res.solute_rows[j].ingredient
-        m, n, rho_i = float(res.pure_kg[j]), float(c.n[0, j]), ing.rho_pure
-    return float(in_basis(amount.basis, m=m, n=n, m_total=m_tot, m_solvent=float(c.m_solvent[0]),
-                          volume=m_tot / rho, rho_pure=rho_i, name=ing.name))
-
-
 @dataclass
 class _Conditions:
     T: float
