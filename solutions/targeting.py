@@ -36,7 +36,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import Callable
 
 import numpy as np
 
@@ -50,6 +49,7 @@ from .limits import e_values, eutectic, solubility_limit
 from .properties import targets as registry_targets
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
                      parse_quantity, resolve, solvent_row, with_number)
+from .roots import bisect_edge, finite_edge
 from .target_result import (Limit, SolveConditions, TargetResult, measure, measure_evaluation,
                             unreachable)
 from .units import Amount, parse_unit
@@ -355,35 +355,6 @@ class _Solver:
         return v - self.target.value if math.isfinite(v) else math.nan
 
     # --- search ---------------------------------------------------------------------
-    def _bisect(self, good: float, bad: float, ok: Callable[[float], bool],
-                n: int = 60) -> tuple[float, float]:
-        """Narrow [good, bad] around the edge of ``ok`` (true at good, false at bad)."""
-        for _ in range(n):
-            mid = 0.5 * (good + bad)
-            if mid in (good, bad) or abs(bad - good) <= 1e-12 * abs(bad):
-                break
-            if ok(mid):
-                good = mid
-            else:
-                bad = mid
-        return good, bad
-
-    def _towards_nan(self, a: float, fa: float, bad: float):
-        """f is finite at ``a`` and NaN at ``bad``: a bracket of the root inside, or the
-        finite edge. Returns ("bracket", lo, hi) or ("edge", x, f(x))."""
-        for _ in range(50):
-            mid = 0.5 * (a + bad)
-            if mid in (a, bad) or bad - a <= 1e-12 * bad:
-                break
-            fm = self.f(mid)
-            if not math.isfinite(fm):
-                bad = mid
-            elif np.sign(fm) != np.sign(fa):
-                return "bracket", a, mid
-            else:
-                a, fa = mid, fm
-        return "edge", a, fa
-
     def solve(self, start: float | None) -> float:
         t = self.target
         f0 = self.f(0.0)
@@ -401,11 +372,11 @@ class _Solver:
         for _ in range(200):
             kind = self.limit_kind(x)
             if kind is not None:
-                b, over = self._bisect(prev, x, lambda z: self.limit_kind(z) is None)
+                b, over = bisect_edge(lambda z: self.limit_kind(z) is None, prev, x)
                 kind = self.limit_kind(over) or kind
                 fb = self.f(b) if b > prev else fprev
                 if not math.isfinite(fb):
-                    how, e, fe = self._towards_nan(prev, fprev, b)
+                    how, e, fe = finite_edge(self.f, prev, fprev, b)
                     if how == "bracket":
                         return self._brentq(e, fe)
                     if b - e > 1e-6 * b:  # NaN right at a physical limit is that limit's
@@ -418,7 +389,7 @@ class _Solver:
                 break
             fx = self.f(x)
             if not math.isfinite(fx):
-                how, e, fe = self._towards_nan(prev, fprev, x)
+                how, e, fe = finite_edge(self.f, prev, fprev, x)
                 if how == "bracket":
                     return self._brentq(e, fe)
                 visited.append((e, fe))
