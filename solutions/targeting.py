@@ -46,7 +46,7 @@ from .evaluate import evaluate
 from .ingredients import Library, default_library
 from .isotonic import ISOTONIC_NACL_G_PER_100ML, ISOTONIC_OSMOLALITY, e_value_isotonic
 from .limits import e_values, eutectic, solubility_limit
-from .properties import targets as registry_targets
+from .properties import TargetProperty, target_properties
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
                      parse_quantity, resolve, solvent_row, with_number)
 from .roots import bisect_edge, finite_edge
@@ -62,28 +62,8 @@ __all__ = ["Target", "TargetResult", "solve_target", "solubility_limit", "eutect
 W_CAP = 0.98
 
 
-# ---------------------------------------------------------------------------- properties
-@dataclass(frozen=True)
-class _Prop:
-    key: str
-    label: str
-    unit: str        # display unit
-    scale: float     # display = SI * scale + offset
-    offset: float
-    tol: float       # absolute tolerance of the achieved check [SI]
-    needs: str = ""  # "freezing", "boiling" or ""
-
-
-def _from_registry(p) -> _Prop:
-    return _Prop(p.target, p.label[0].lower() + p.label[1:], p.unit, p.scale, p.offset, p.tol,
-                 p.needs)
-
-
-#: the target properties: the registry's target rows, plus the concentration of a row
-PROPERTIES: dict[str, _Prop] = {
-    **{name: _from_registry(p) for name, p in registry_targets().items()},
-    "concentration": _Prop("concentration", "concentration", "", 1.0, 0.0, 0.0),
-}
+#: the target properties by name (the registry's target rows, plus a row's concentration)
+PROPERTIES: dict[str, TargetProperty] = target_properties()
 
 
 @dataclass(frozen=True)
@@ -179,7 +159,7 @@ class Target:
 
     # --- display -------------------------------------------------------------------------
     @property
-    def prop(self) -> _Prop:
+    def prop(self) -> TargetProperty:
         return PROPERTIES[self.quantity]
 
     @property
