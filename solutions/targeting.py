@@ -35,7 +35,7 @@ words for an unreachable target are in :mod:`solutions.target_result`.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -47,12 +47,12 @@ from .ingredients import Library, default_library
 from .isotonic import ISOTONIC_NACL_G_PER_100ML, ISOTONIC_OSMOLALITY, e_value_isotonic
 from .limits import e_values, eutectic, solubility_limit
 from .properties import TargetProperty, target_properties
-from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
-                     parse_quantity, resolve, solvent_row, with_number)
+from .recipe import (T_PREP, Recipe, ResolvedRecipe, find_row, parse_quantity, resolve,
+                     solvent_row, with_new_row, with_number)
 from .roots import bisect_edge, finite_edge
 from .target_result import (Limit, SolveConditions, TargetResult, measure, measure_evaluation,
                             unreachable)
-from .units import Amount, parse_unit
+from .units import Amount
 
 __all__ = ["Target", "TargetResult", "solve_target", "solubility_limit", "eutectic", "e_values",
            "e_value_isotonic", "component_concentration", "ISOTONIC_OSMOLALITY",
@@ -231,14 +231,9 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
                           row.text)
     if ing.is_water:
         raise RecipeError("water is the solvent and cannot be the varied ingredient")
-    original = None
+    original = None if row is None else float(row.number)
     if row is None:
-        unit = new_row_unit(recipe)
-        row = RecipeRow(max(r.row for r in recipe.rows) + 1, ing, parse_unit(unit), 0.0, 1.0,
-                        str(vary))
-        recipe = replace(recipe, rows=(*recipe.rows, row))
-    else:
-        original = float(row.number)
+        recipe, row = with_new_row(recipe, ing, str(vary))
     comp_row = None
     if target.quantity == "concentration":
         crow, _ = find_row(recipe, target.component, lib)
