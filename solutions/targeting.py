@@ -391,7 +391,8 @@ class _Solver:
 
         x, r = brentq(self.f, a, b, xtol=max(abs(b), 1e-300) * 1e-14, rtol=1e-13,
                       maxiter=200, full_output=True)
-        self.iterations = r.iterations
+        # f exactly 0 at an end: brentq returns it uniterated, its iteration count unset
+        self.iterations = r.iterations if r.function_calls > 2 else 0
         if not r.converged:
             raise TargetError(f"brentq did not converge for the {self.target.label}")
         return float(x)
