@@ -25,7 +25,7 @@ import numpy as np
 
 from .colligative import P_ATM
 from .composition import Composition
-from .concentration import in_basis
+from .concentration import CONCENTRATION_BASES, component_concentration, in_basis
 from .density import solution_density, solvent_density
 from .errors import Caveat, RecipeError, TargetError, caveat_fields
 from .evaluate import Evaluation, evaluate
@@ -33,7 +33,6 @@ from .ingredients import Library, default_library
 from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, parse_batch,
                      parse_quantity, resolve)
 from .limits import solubility_caveats
-from .targeting import _CONC_BASES, component_concentration
 from .units import Basis, parse_unit
 
 __all__ = ["WeighOut", "weigh_out", "DilutionPlan", "dilution_plan", "solvent_density"]
@@ -324,7 +323,7 @@ def dilution_plan(recipe: Recipe, ingredient: str, to_text: str, final_text: str
         raise RecipeError(f"{row.text} is the solvent; choose a dissolved ingredient")
     j = next(i for i, r in enumerate(stock.solute_rows) if r.row == row.row)
     number, amount = parse_quantity(to_text)
-    if amount.basis not in _CONC_BASES:
+    if amount.basis not in CONCENTRATION_BASES:
         raise RecipeError(f"{to_text!r} is not a concentration; use % w/w, % w/v, % v/v, ppm, "
                           "g/L, mg/mL, M, mM or mol/kg")
     if not number > 0:

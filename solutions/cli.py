@@ -67,7 +67,7 @@ def build_parser() -> argparse.ArgumentParser:
         unit = f", {prop.unit}" if prop.unit else ""
         extra = " or 'isotonic'" if name == "osmolality" else ""
         g.add_argument(prop.flag, dest=f"target_{name}", metavar="VALUE",
-                       help=f"target {prop.label.lower()}{unit}{extra}")
+                       help=f"target {prop.label.lower()}{unit}{extra}".replace("%", "%%"))
     g.add_argument("--concentration", nargs=2, metavar=("INGREDIENT", "VALUE_UNIT"),
                    help="target concentration of another ingredient, e.g. NaCl '0.9 %% w/v'")
     tg.add_argument("--isotonic-mOsm", default="290",

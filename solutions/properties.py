@@ -14,7 +14,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["Property", "PROPERTIES", "by_key", "targets", "display_rows", "about_groups"]
+__all__ = ["Property", "PROPERTIES", "by_key", "targets", "display_rows", "about_groups",
+           "TargetProperty", "target_properties"]
 
 
 @dataclass(frozen=True)
@@ -116,6 +117,30 @@ def by_key(key: str) -> Property:
 def targets() -> dict[str, Property]:
     """The properties that can be design targets, by target name."""
     return {p.target: p for p in PROPERTIES if p.target}
+
+
+@dataclass(frozen=True)
+class TargetProperty:
+    """A property as a design target: target name, label in running text ("freezing point"),
+    display unit, display = SI × scale + offset, tolerance of the achieved value [SI] and the
+    part of the model it needs ("freezing", "boiling" or "")."""
+
+    key: str
+    label: str
+    unit: str
+    scale: float
+    offset: float
+    tol: float
+    needs: str = ""
+
+
+def target_properties() -> dict[str, TargetProperty]:
+    """The design targets by name: the registry's target rows, plus the concentration of a
+    recipe row (its unit is the one typed with the target)."""
+    out = {name: TargetProperty(p.target, p.label[0].lower() + p.label[1:], p.unit, p.scale,
+                                p.offset, p.tol, p.needs) for name, p in targets().items()}
+    out["concentration"] = TargetProperty("concentration", "concentration", "", 1.0, 0.0, 0.0)
+    return out
 
 
 def display_rows() -> list[tuple[str, str, str]]:

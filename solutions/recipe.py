@@ -41,7 +41,7 @@ if TYPE_CHECKING:  # pandas is imported only where a workbook or DataFrame is re
 
 __all__ = ["RecipeRow", "Recipe", "ResolvedRecipe", "read_recipe", "resolve", "T_PREP",
            "find_columns", "parse_batch", "read_workbook", "parse_quantity", "find_row",
-           "solvent_row", "new_row_unit", "with_number", "recipe_csv"]
+           "solvent_row", "new_row_unit", "with_new_row", "with_number", "recipe_csv"]
 
 T_PREP = 293.15  # K: volumes in a recipe are read at 20 °C unless stated
 
@@ -814,6 +814,15 @@ def new_row_unit(recipe: Recipe) -> str:
     if b in (Basis.BALANCE, Basis.QS_MASS):
         return "% w/w"
     return "g"
+
+
+def with_new_row(recipe: Recipe, ingredient: Ingredient, text: str
+                 ) -> tuple[Recipe, RecipeRow]:
+    """The recipe with a last row of ``ingredient`` (written ``text``) at 0 in
+    :func:`new_row_unit`, and that row."""
+    row = RecipeRow(max(r.row for r in recipe.rows) + 1, ingredient,
+                    parse_unit(new_row_unit(recipe)), 0.0, 1.0, text)
+    return replace(recipe, rows=(*recipe.rows, row)), row
 
 
 def with_number(recipe: Recipe, row_id: int, x: float) -> Recipe:

@@ -16,15 +16,21 @@ Reference: T. R. Chandrupatla, "A new hybrid quadratic/bisection algorithm for f
 the zero of a nonlinear function without using derivatives", Advances in Engineering
 Software 28 (1997) 145–149, doi:10.1016/S0965-9978(96)00051-8 (Figure 1 and the BASIC
 listing of its appendix). The stopping rule is bisection's: |x₂ − x₁| < xatol + xrtol·|x_min|.
+
+Two scalar helpers serve a bracket search along one variable (the target solver):
+:func:`bisect_edge` narrows an interval around the edge of a condition, :func:`finite_edge`
+around the point where a function stops being finite.
 """
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Callable
 
 import numpy as np
 
-__all__ = ["find_root", "bracketed_root", "ROOT_CHUNK", "RootResult", "CONVERGED", "SIGN_ERROR", "MAX_ITER", "VALUE_ERROR"]
+__all__ = ["find_root", "bracketed_root", "ROOT_CHUNK", "RootResult", "CONVERGED", "SIGN_ERROR",
+           "MAX_ITER", "VALUE_ERROR", "bisect_edge", "finite_edge"]
 
 #: ``status`` codes: converged; the bracket does not change sign; out of iterations;
 #: a non-finite abscissa or function value
@@ -208,3 +214,37 @@ def bracketed_root(f, lo, hi, bs, N, *, xatol=1e-9, xrtol=1e-13):
                            tolerances={"xatol": xatol, "xrtol": xrtol})
         out[ok] = np.where(res.success, res.x, np.nan)
     return out
+
+
+def bisect_edge(ok: Callable[[float], bool], good: float, bad: float,
+                n: int = 60) -> tuple[float, float]:
+    """Narrow [good, bad] around the edge of ``ok`` (true at ``good``, false at ``bad``) by
+    bisection, to 1e-12 relative or ``n`` halvings; returns the narrowed (good, bad)."""
+    for _ in range(n):
+        mid = 0.5 * (good + bad)
+        if mid in (good, bad) or abs(bad - good) <= 1e-12 * abs(bad):
+            break
+        if ok(mid):
+            good = mid
+        else:
+            bad = mid
+    return good, bad
+
+
+def finite_edge(f: Callable[[float], float], a: float, fa: float, bad: float, n: int = 50):
+    """``f`` is finite at ``a`` (value ``fa``) and not at ``bad`` > ``a``: bisect towards
+    ``bad`` until ``f`` changes sign or the finite edge is found (1e-12 relative or ``n``
+    halvings). Returns ``("bracket", lo, hi)``, a sign change of ``f`` between lo and hi, or
+    ``("edge", x, f(x))``, the last finite point."""
+    for _ in range(n):
+        mid = 0.5 * (a + bad)
+        if mid in (a, bad) or bad - a <= 1e-12 * bad:
+            break
+        fm = f(mid)
+        if not math.isfinite(fm):
+            bad = mid
+        elif np.sign(fm) != np.sign(fa):
+            return "bracket", a, mid
+        else:
+            a, fa = mid, fm
+    return "edge", a, fa

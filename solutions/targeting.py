@@ -28,67 +28,42 @@ recipe can reach. Concentration and density targets are at the evaluation temper
 ``T``, like :func:`~solutions.evaluate.evaluate`'s output; the recipe's own volumes stay at
 its preparation temperature.
 
-Beside the model, for isotonic osmolality targets, the sodium-chloride-equivalent (E-value)
-method of hospital pharmacy (common practice):
-NaCl-equivalent needed = 0.9 g/100 mL − Σ_j E_j c_j, the varied ingredient's amount
-c_X = (0.9 − Σ_{j≠X} E_j c_j) / E_X [g/100 mL], with E-values from
-``solutions/data/e_values.csv`` (or E = ΔT_f(1 %)_X / ΔT_f(1 %)_NaCl where only the 1 %
-freezing-point depression is listed).
+Beside the model, an isotonic osmolality target also gets the amount by the
+sodium-chloride-equivalent (E-value) method (:mod:`solutions.isotonic`). The result and the
+words for an unreachable target are in :mod:`solutions.target_result`.
 """
 from __future__ import annotations
 
 import math
-import re
-from dataclasses import dataclass, field, replace
-from typing import Callable
+from dataclasses import dataclass
 
 import numpy as np
 
-from .colligative import P_ATM, colligative
-from .density import solution_density
-from .errors import Caveat, InputError, RecipeError, TargetError, caveat_fields
-from .evaluate import Evaluation, evaluate
+from .colligative import P_ATM
+from .concentration import CONCENTRATION_BASES as _CONC_BASES, component_concentration
+from .errors import Caveat, InputError, RecipeError, TargetError
+from .evaluate import evaluate
 from .ingredients import Library, default_library
-from .recipe import (T_PREP, Recipe, RecipeRow, ResolvedRecipe, find_row, new_row_unit,
-                     parse_quantity, resolve, solvent_row, with_number)
-from .concentration import CONCENTRATION_BASES as _CONC_BASES, in_basis
-from .density import solvent_density
 from .isotonic import ISOTONIC_NACL_G_PER_100ML, ISOTONIC_OSMOLALITY, e_value_isotonic
 from .limits import e_values, eutectic, solubility_limit
-from .properties import targets as registry_targets
-from .units import Amount, Basis, parse_unit
+from .properties import TargetProperty, target_properties
+from .recipe import (T_PREP, Recipe, ResolvedRecipe, find_row, parse_quantity, resolve,
+                     solvent_row, with_new_row, with_number)
+from .roots import bisect_edge, finite_edge
+from .target_result import (Limit, SolveConditions, TargetResult, measure, measure_evaluation,
+                            unreachable)
+from .units import Amount
 
-__all__ = ["Target", "TargetResult", "solve_target",
-           "solubility_limit", "eutectic", "e_values",
-           "component_concentration", "ISOTONIC_OSMOLALITY",
+__all__ = ["Target", "TargetResult", "solve_target", "solubility_limit", "eutectic", "e_values",
+           "e_value_isotonic", "component_concentration", "ISOTONIC_OSMOLALITY",
            "ISOTONIC_NACL_G_PER_100ML", "W_CAP", "PROPERTIES"]
 
 #: highest mass fraction of the varied ingredient searched (practically the pure ingredient)
 W_CAP = 0.98
 
 
-# ---------------------------------------------------------------------------- properties
-@dataclass(frozen=True)
-class _Prop:
-    key: str
-    label: str
-    unit: str        # display unit
-    scale: float     # display = SI * scale + offset
-    offset: float
-    tol: float       # absolute tolerance of the achieved check [SI]
-    needs: str = ""  # "freezing", "boiling" or ""
-
-
-def _from_registry(p) -> _Prop:
-    return _Prop(p.target, p.label[0].lower() + p.label[1:], p.unit, p.scale, p.offset, p.tol,
-                 p.needs)
-
-
-#: the target properties: the registry's target rows, plus the concentration of a row
-PROPERTIES: dict[str, _Prop] = {
-    **{name: _from_registry(p) for name, p in registry_targets().items()},
-    "concentration": _Prop("concentration", "concentration", "", 1.0, 0.0, 0.0),
-}
+#: the target properties by name (the registry's target rows, plus a row's concentration)
+PROPERTIES: dict[str, TargetProperty] = target_properties()
 
 
 @dataclass(frozen=True)
@@ -184,7 +159,7 @@ class Target:
 
     # --- display -------------------------------------------------------------------------
     @property
-    def prop(self) -> _Prop:
+    def prop(self) -> TargetProperty:
         return PROPERTIES[self.quantity]
 
     @property
@@ -216,169 +191,9 @@ class Target:
         return self.prop.tol
 
 
-_NUM_UNIT = re.compile(r"^\s*(?P<num>[-+]?[0-9]*[.,]?[0-9]+(?:[eE][-+]?[0-9]+)?)\s*(?P<unit>.*)$")
-
-
-# ---------------------------------------------------------------------------- measuring
-def component_concentration(res: ResolvedRecipe, row_id: int, amount: Amount, rho: float) -> float:
-    """Concentration of recipe row ``row_id`` in ``amount.basis`` [SI of the basis], at solution
-    density ``rho`` [kg/m³]; mass bases count the form as weighed (as the evaluate output), the
-    solvent row counts all the solvent."""
-    c = res.composition
-    m_tot = float(c.m_total[0])
-    if res.solvent_row is not None and res.solvent_row.row == row_id:
-        ing = res.solvent_row.ingredient
-        m = float(c.m_solvent[0])
-        n = m / ing.M
-        rho_i = solvent_density(c, res.T_prep)
-    else:
-        j = next(i for i, r in enumerate(res.solute_rows) if r.row == row_id)
-        ing = res.solute_rows[j].ingredient
-        m, n, rho_i = float(res.pure_kg[j]), float(c.n[0, j]), ing.rho_pure
-    return float(in_basis(amount.basis, m=m, n=n, m_total=m_tot, m_solvent=float(c.m_solvent[0]),
-                          volume=m_tot / rho, rho_pure=rho_i, name=ing.name))
-
-
-@dataclass
-class _Conditions:
-    T: float
-    P: float
-    model: str
-    rho_measured: float | None
-    T_prep: float
-
-
-def _measure(res: ResolvedRecipe, target: Target, cond: _Conditions, comp_row: int | None) -> float:
-    """The target property of a resolved recipe, as :func:`evaluate` computes it [SI]."""
-    comp = res.composition
-    rho = float(solution_density(comp, cond.T, measured=cond.rho_measured).rho[0])
-    q = target.quantity
-    if q == "density":
-        return rho
-    if q == "concentration":
-        return component_concentration(res, comp_row, target.amount, rho)
-    need = target.prop.needs
-    props = colligative(comp, cond.T, cond.P, cond.model, rho=rho,
-                        with_boiling=(need == "boiling"), with_freezing=(need == "freezing"))
-    return _from_props(props, q)
-
-
-def _from_props(props, q: str) -> float:
-    v = getattr(props, registry_targets()[q].field)
-    return float(np.asarray(v).reshape(-1)[0])
-
-
-def _measure_ev(ev: Evaluation, target: Target, comp_row: int | None) -> float:
-    q = target.quantity
-    if q == "density":
-        return ev.rho
-    if q == "concentration":
-        return component_concentration(ev.resolved, comp_row, target.amount, ev.rho)
-    return _from_props(ev.props, q)
-
-
-# ---------------------------------------------------------------------------- solubility
 # ---------------------------------------------------------------------------- the solve
-@dataclass
-class TargetResult:
-    """A solved target: the adjusted recipe, its evaluation and how the solve went."""
-
-    target: Target
-    evaluation: Evaluation
-    recipe: Recipe                      # the adjusted recipe
-    varied: RecipeRow                   # the adjusted row (in the adjusted recipe)
-    original_number: float | None       # None when the row was added
-    achieved: float                     # [SI]
-    iterations: int
-    function_calls: int
-    caveats: list[Caveat] = field(default_factory=list)
-    e_value_method: dict | None = None
-    component_row: int | None = None
-
-    @property
-    def number(self) -> float:
-        return float(self.varied.number)
-
-    @property
-    def added(self) -> bool:
-        return self.original_number is None
-
-    def _varied_index(self) -> int:
-        return next(i for i, r in enumerate(self.evaluation.resolved.solute_rows)
-                    if r.row == self.varied.row)
-
-    def to_dict(self) -> dict:
-        """``evaluate --json`` of the adjusted recipe plus recipe, varied and target."""
-        ev = self.evaluation
-        d = ev.to_dict()
-        d.update(caveat_fields([*ev.warnings, *self.caveats]))
-        d["recipe"] = self.recipe.as_written()
-        j = self._varied_index()
-        res = ev.resolved
-        d["varied"] = {
-            "ingredient": self.varied.text, "library_name": self.varied.ingredient.name,
-            "row": self.varied.row, "mass_g": float(res.pure_kg[j]) * 1e3,
-            "weigh_g": float(res.weighed_kg[j]) * 1e3,
-            "amount": self.number, "unit": self.varied.amount.text,
-            "original_amount": self.original_number, "added_row": self.added,
-        }
-        t = self.target
-        d["target"] = {
-            "property": t.quantity, "label": t.label, "value": t.display(t.value),
-            "unit": t.unit, "achieved": t.display(self.achieved),
-            "tolerance": t.tolerance / t.amount.value_si if t.quantity == "concentration"
-            else t.tolerance * t.prop.scale,
-            "iterations": self.iterations, "function_calls": self.function_calls,
-            "solver": "scipy.optimize.brentq",
-        }
-        if t.isotonic:
-            d["target"]["isotonic"] = True
-        if t.quantity == "concentration":
-            d["target"]["component"] = t.component
-        if self.e_value_method is not None:
-            d["e_value_method"] = self.e_value_method
-        return d
-
-    def summary_text(self) -> str:
-        t = self.target
-        was = ("(added row)" if self.added else
-               f"(was {self.original_number:.6g} {self.varied.amount.text})")
-        d = self.to_dict()
-        lines = [f"Target: {t.label} {t.fmt(t.value)}"
-                 + (" (isotonic)" if t.isotonic else ""),
-                 f"Vary {self.varied.text}: {self.number:.6g} {self.varied.amount.text} {was}"
-                 f" = {d['varied']['mass_g']:.6g} g in this batch",
-                 f"Achieved: {t.fmt(self.achieved)} ({self.iterations} brentq iterations, "
-                 f"{self.function_calls} model evaluations)"]
-        e = self.e_value_method
-        if e is not None:
-            if e.get("available"):
-                lines.append(
-                    f"E-value (NaCl-equivalent) method: {e['g_per_100_mL']:.4g} g/100 mL of "
-                    f"{self.varied.text} ({e['g_in_batch']:.4g} g in {e['volume_mL']:.5g} mL); "
-                    f"model: {e['model_g_per_100_mL']:.4g} g/100 mL "
-                    f"({e['difference_percent']:+.2g} % E-method vs model)")
-            else:
-                lines.append(f"E-value method not available: {e['reason']}")
-        return "\n".join(lines)
-
-
-
-
-_LIMIT_WORDS = {"solubility": "solubility reached", "eutectic": "eutectic reached",
-                "water": "no water left", "cap": f"{W_CAP * 100:g} % w/w reached",
-                "model": "the model's range ends"}
-
-
 class _Infeasible(Exception):
     pass
-
-
-@dataclass
-class _Limit:
-    kind: str
-    x: float
-    value: float          # property at the limit [SI], NaN if none
 
 
 def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library | None = None,
@@ -404,7 +219,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
     reached (with the nearest reachable value), :class:`RecipeError` for bad input.
     """
     lib = library or default_library()
-    cond = _Conditions(float(T), float(P), model, rho_measured, float(T_prep))
+    cond = SolveConditions(float(T), float(P), model, rho_measured, float(T_prep))
     if rho_measured is not None and target.quantity == "density":
         raise InputError("a density target cannot be solved with a measured density "
                              "(--density): drop the measured value")
@@ -416,14 +231,9 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
                           row.text)
     if ing.is_water:
         raise RecipeError("water is the solvent and cannot be the varied ingredient")
-    original = None
+    original = None if row is None else float(row.number)
     if row is None:
-        unit = new_row_unit(recipe)
-        row = RecipeRow(max(r.row for r in recipe.rows) + 1, ing, parse_unit(unit), 0.0, 1.0,
-                        str(vary))
-        recipe = replace(recipe, rows=(*recipe.rows, row))
-    else:
-        original = float(row.number)
+        recipe, row = with_new_row(recipe, ing, str(vary))
     comp_row = None
     if target.quantity == "concentration":
         crow, _ = find_row(recipe, target.component, lib)
@@ -442,7 +252,7 @@ def solve_target(recipe: Recipe, vary: str, target: Target, *, library: Library 
     res = resolve(final, T_prep=cond.T_prep, rho_measured=rho_measured)
     ev = evaluate(res, T=cond.T, P=cond.P, model=model, rho_measured=rho_measured,
                   T_prep=cond.T_prep)
-    achieved = _measure_ev(ev, target, comp_row)
+    achieved = measure_evaluation(ev, target, comp_row)
     if not (abs(achieved - target.value) <= target.tolerance):
         raise TargetError(f"the solver stopped at {x:.6g} {row.amount.text} of {row.text}, where "
                           f"the {target.label} is {target.fmt(achieved)}, not the target "
@@ -516,39 +326,10 @@ class _Solver:
         self.calls += 1
         res = self.resolved(x)
         with np.errstate(all="ignore"):
-            v = _measure(res, self.target, self.cond, self.comp_row)
+            v = measure(res, self.target, self.cond, self.comp_row)
         return v - self.target.value if math.isfinite(v) else math.nan
 
     # --- search ---------------------------------------------------------------------
-    def _bisect(self, good: float, bad: float, ok: Callable[[float], bool],
-                n: int = 60) -> tuple[float, float]:
-        """Narrow [good, bad] around the edge of ``ok`` (true at good, false at bad)."""
-        for _ in range(n):
-            mid = 0.5 * (good + bad)
-            if mid in (good, bad) or abs(bad - good) <= 1e-12 * abs(bad):
-                break
-            if ok(mid):
-                good = mid
-            else:
-                bad = mid
-        return good, bad
-
-    def _towards_nan(self, a: float, fa: float, bad: float):
-        """f is finite at ``a`` and NaN at ``bad``: a bracket of the root inside, or the
-        finite edge. Returns ("bracket", lo, hi) or ("edge", x, f(x))."""
-        for _ in range(50):
-            mid = 0.5 * (a + bad)
-            if mid in (a, bad) or bad - a <= 1e-12 * bad:
-                break
-            fm = self.f(mid)
-            if not math.isfinite(fm):
-                bad = mid
-            elif np.sign(fm) != np.sign(fa):
-                return "bracket", a, mid
-            else:
-                a, fa = mid, fm
-        return "edge", a, fa
-
     def solve(self, start: float | None) -> float:
         t = self.target
         f0 = self.f(0.0)
@@ -566,11 +347,11 @@ class _Solver:
         for _ in range(200):
             kind = self.limit_kind(x)
             if kind is not None:
-                b, over = self._bisect(prev, x, lambda z: self.limit_kind(z) is None)
+                b, over = bisect_edge(lambda z: self.limit_kind(z) is None, prev, x)
                 kind = self.limit_kind(over) or kind
                 fb = self.f(b) if b > prev else fprev
                 if not math.isfinite(fb):
-                    how, e, fe = self._towards_nan(prev, fprev, b)
+                    how, e, fe = finite_edge(self.f, prev, fprev, b)
                     if how == "bracket":
                         return self._brentq(e, fe)
                     if b - e > 1e-6 * b:  # NaN right at a physical limit is that limit's
@@ -579,15 +360,15 @@ class _Solver:
                 visited.append((b, fb))
                 if np.sign(fb) != np.sign(fprev) and b > prev:
                     return self._brentq(prev, b)
-                limit = _Limit(kind, b, fb + t.value)
+                limit = Limit(kind, b, fb + t.value)
                 break
             fx = self.f(x)
             if not math.isfinite(fx):
-                how, e, fe = self._towards_nan(prev, fprev, x)
+                how, e, fe = finite_edge(self.f, prev, fprev, x)
                 if how == "bracket":
                     return self._brentq(e, fe)
                 visited.append((e, fe))
-                limit = _Limit("model", e, fe + t.value)
+                limit = Limit("model", e, fe + t.value)
                 break
             visited.append((x, fx))
             if np.sign(fx) != np.sign(fprev):
@@ -602,84 +383,16 @@ class _Solver:
             x = x_next
         else:  # pragma: no cover - 2^200 is beyond any recipe
             raise TargetError(f"no bracket found for the {t.label}")
-        self._unreachable(visited, limit)
+        raise unreachable(t, self.row, visited, limit, T=self.cond.T, solubility=self.sol,
+                          eutectic=self.eut, solvent=self.sv, w_cap=W_CAP)
 
     def _brentq(self, a: float, b: float) -> float:
         from scipy.optimize import brentq  # imported here: heavy, only the solve needs it
 
         x, r = brentq(self.f, a, b, xtol=max(abs(b), 1e-300) * 1e-14, rtol=1e-13,
                       maxiter=200, full_output=True)
-        self.iterations = r.iterations
+        # f exactly 0 at an end: brentq returns it uniterated, its iteration count unset
+        self.iterations = r.iterations if r.function_calls > 2 else 0
         if not r.converged:
             raise TargetError(f"brentq did not converge for the {self.target.label}")
         return float(x)
-
-    # --- why not -------------------------------------------------------------------
-    def _unreachable(self, visited, limit: _Limit):
-        t = self.target
-        name, unit = self.row.text, self.row.amount.text
-        vals = [(x, fx + t.value) for x, fx in visited if math.isfinite(fx)]
-        x_near, p_near = min(vals, key=lambda v: abs(v[1] - t.value))
-        p0 = vals[0][1]
-        tgt = t.fmt(t.value)
-        nearest = t.display(p_near)
-        scale = max(abs(p0), abs(t.value), 1e-300)
-        spread = max(abs(p - p0) for _, p in vals)
-        if spread <= max(t.tolerance, 1e-12 * scale):
-            raise TargetError(f"{name} does not change the {t.label} of this recipe (it stays "
-                              f"{t.fmt(p0)}); the target {tgt} needs another ingredient",
-                              nearest, t.unit)
-        if x_near == 0.0:
-            far = max(vals, key=lambda v: abs(v[1] - p0))
-            raise TargetError(
-                f"{name} moves the {t.label} the wrong way: without any {name} it is "
-                f"{t.fmt(p0)}, and adding {name} takes it further from the target {tgt} "
-                f"(to {t.fmt(far[1])} at {far[0]:.4g} {unit})", t.display(p0), t.unit)
-        if abs(x_near - limit.x) > 1e-6 * max(limit.x, 1e-300):
-            # the property turned back before the limit (outside a model's fitted range)
-            raise TargetError(
-                f"the {t.label} comes closest to the target {tgt} at {x_near:.4g} {unit} of "
-                f"{name} ({t.fmt(p_near)}) and turns back beyond it (outside the range the "
-                f"model was fitted on); the search stopped at {limit.x:.4g} {unit} "
-                f"({_LIMIT_WORDS.get(limit.kind, limit.kind)})", nearest, t.unit)
-        xb = f"{limit.x:.4g} {unit}"
-        pb = t.fmt(limit.value) if math.isfinite(limit.value) else "not defined"
-        ing = self.row.ingredient
-        if limit.kind == "solubility":
-            r_sat, info = self.sol
-            why = (f"{name} cannot dissolve beyond its solubility, {r_sat * 100:.4g} g per 100 g "
-                   f"water at {self.cond.T - 273.15:.4g} °C (solubility.csv: {info['name']}); "
-                   f"at that limit ({xb}) the {t.label} is {pb}, short of the target {tgt}")
-        elif limit.kind == "eutectic":
-            r_e, T_e, row = self.eut
-            w_e = float(row["eutectic_mass_pct"])
-            why = (f"beyond the {row['name']}–water eutectic ({w_e:g} % "
-                   f"w/w, {T_e - 273.15:.4g} °C; eutectics.csv) ice is no longer the only solid "
-                   f"that forms, so adding {name} cannot lower the freezing point further; at "
-                   f"the eutectic composition ({xb}) the model gives a {t.label} of {pb}, "
-                   f"short of the target {tgt}")
-        elif limit.kind == "water":
-            sb = self.sv.amount.basis if self.sv is not None else None
-            if sb is Basis.QS_VOLUME:
-                why = (f"the q.s. volume is already full: at {xb} of {name} no water is left "
-                       f"to make up to {self.sv.number:g} {self.sv.amount.text}; the "
-                       f"{t.label} there is {pb}, short of the target {tgt}")
-            elif sb is Basis.QS_MASS:
-                why = (f"the q.s. mass is already full: at {xb} of {name} no water is left "
-                       f"to make up to {self.sv.number:g} {self.sv.amount.text}; the "
-                       f"{t.label} there is {pb}, short of the target {tgt}")
-            elif sb is Basis.BALANCE:
-                why = (f"a % w/w balance recipe cannot exceed 100 %: at {xb} of {name} the "
-                       f"rows leave no room for water; the {t.label} there is {pb}, short of "
-                       f"the target {tgt}")
-            else:
-                why = (f"at {xb} of {name} the solutes would take the whole solution (no water "
-                       f"left); the {t.label} there is {pb}, short of the target {tgt}")
-        elif limit.kind == "cap":
-            why = (f"even at {W_CAP * 100:g} % w/w {ing.name} ({xb}), practically the pure "
-                   f"ingredient, the {t.label} only reaches {pb}, short of the target {tgt}")
-        else:
-            why = (f"beyond {xb} of {name} the {t.label} leaves the model's range (it cannot "
-                   f"be computed there); the last computed value is {pb}, short of the "
-                   f"target {tgt}")
-        raise TargetError(why, nearest, t.unit)

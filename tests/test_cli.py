@@ -75,3 +75,18 @@ def test_ingredients_listing(capsys):
     assert main(["ingredients", "--json"]) == 0
     names = [r["name"] for r in json.loads(capsys.readouterr().out)]
     assert "Sodium chloride" in names and len(names) >= 30
+
+
+def test_every_command_prints_its_help(capsys):
+    """--help of every command exits 0 and lists its options (a '%' in a generated help text,
+    e.g. the relative humidity's unit, must not break argparse's formatting)."""
+    from solutions.cli import build_parser
+    from solutions.properties import targets
+    commands = next(a for a in build_parser()._actions if a.dest == "command").choices
+    for name in commands:
+        with pytest.raises(SystemExit) as exc:
+            main([name, "--help"])
+        assert exc.value.code == 0, name
+        out = capsys.readouterr().out
+        if name == "target":
+            assert all(p.flag in out for p in targets().values())

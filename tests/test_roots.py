@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from solutions.roots import CONVERGED, SIGN_ERROR, find_root
+from solutions.roots import CONVERGED, SIGN_ERROR, bisect_edge, find_root, finite_edge
 
 
 def test_closed_form_roots():
@@ -20,6 +20,20 @@ def test_closed_form_roots():
     r = find_root(lambda x, c, p: x ** p - c, (0.0, 3.0), args=([2.0, 2.0], [3.0, 2.0]))
     assert np.allclose(r.x, [2.0 ** (1 / 3), math.sqrt(2.0)], rtol=0, atol=4e-16)
     assert r.x.shape == (2,) and r.success.all()
+
+
+def test_bisect_edge_and_finite_edge_closed_form():
+    """The edge of x² < 2 is √2; √(2 − x) − 1 is finite up to x = 2 and changes sign at 1;
+    √(2 − x) + 1 has no root, so the search ends at the finite edge x → 2."""
+    good, bad = bisect_edge(lambda x: x * x < 2.0, 1.0, 2.0)
+    assert good < math.sqrt(2.0) <= bad and bad - good <= 1e-12 * 2.0
+
+    def f(c):
+        return lambda x: math.sqrt(2.0 - x) + c if x <= 2.0 else math.nan
+    how, lo, hi = finite_edge(f(-1.0), 0.0, f(-1.0)(0.0), 4.0)
+    assert how == "bracket" and lo <= 1.0 <= hi
+    how, x, fx = finite_edge(f(1.0), 0.0, f(1.0)(0.0), 4.0)
+    assert how == "edge" and x == pytest.approx(2.0, abs=1e-9) and fx == f(1.0)(x)
 
 
 def test_bracket_without_sign_change_fails_with_nan():

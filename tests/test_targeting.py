@@ -328,6 +328,17 @@ def test_round_trip_property(solute, style, start, x_true, prop, second):
                                                               abs=target.tolerance * 1e3)
 
 
+def test_recipe_already_at_its_target_is_returned_without_iterations():
+    """Asked for the freezing point it already has (as evaluate computes it), the recipe comes
+    back unchanged and the answer reports no root-finder iterations."""
+    recipe = _recipe("ingredient,amount,unit\nsodium chloride,0.5,g\nwater,100,g")
+    fp = float(np.asarray(evaluate(recipe).props.freezing_point).reshape(-1)[0])
+    for _ in range(3):
+        r = solve_target(recipe, "sodium chloride", Target.freezing_point(fp))
+        assert r.number == 0.5
+        assert r.iterations == 0 and r.to_dict()["target"]["iterations"] == 0
+
+
 # ----------------------------------------------------------------------------- unreachable
 def _run(tmp_path, capsys, recipe_text, *args):
     p = tmp_path / "recipe.csv"

@@ -19,12 +19,12 @@ from dataclasses import dataclass, field
 import pandas as pd
 
 from ..batch import dilution_plan, weigh_out
+from ..concentration import component_concentration
 from ..errors import SolutionsError, TargetError
 from ..ingredients import Library
-from ..recipe import Recipe, parse_batch, resolve
+from ..recipe import Recipe, find_row, parse_batch, parse_quantity, resolve
 from ..report import csv_value, fmt, json_text, property_text, safe_cell
-from ..targeting import (PROPERTIES, Target, component_concentration, find_row, parse_quantity,
-                         solve_target)
+from ..targeting import PROPERTIES, Target, solve_target
 from .compute import Conditions, TableRead
 from .tables import EDITOR_COLUMNS, activity_label, clean_table, sort_cautions
 
