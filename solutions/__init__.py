@@ -6,8 +6,7 @@ Data flow, one way: recipe table → :mod:`solutions.recipe` (parse, resolve) �
 :mod:`solutions.activity`, :mod:`solutions.colligative` → :mod:`solutions.evaluate` →
 command line, dashboard and report files.
 """
-__version__ = "0.1.0"
-
+from ._version import __version__  # noqa: E402
 from .errors import (Caveat, IngredientError, OutOfRangeError, RecipeError,  # noqa: E402
                      SolutionsError, TargetError, UnitParseError)
 

@@ -20,7 +20,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import __version__
+from ._version import __version__
 from .colligative import P_ATM, ColligativeResult, colligative
 from .density import solution_density
 from .errors import Caveat, OptionError, caveat_fields, merge_caveats

@@ -23,7 +23,7 @@ import threading
 
 import streamlit as st
 
-from .. import __version__
+from .._version import __version__
 from ..charts import Curve, vapor_pressure_range
 from ..report import html_report, json_text, property_text, summary_csv
 from . import state as S
