@@ -28,12 +28,10 @@ import argparse
 import asyncio
 import os
 import random
-import socket
 import statistics
 import subprocess
 import sys
 import time
-import urllib.request
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -41,9 +39,8 @@ TEMPERATURE_LABEL = "Solution temperature (°C)"
 
 
 def free_port() -> int:
-    with socket.socket() as s:
-        s.bind(("127.0.0.1", 0))
-        return s.getsockname()[1]
+    from solutions.ui.serve import free_port as free
+    return free()
 
 
 def rss_mb(pid: int) -> float:
@@ -64,26 +61,18 @@ def tree_rss_mb(pid: int) -> float:
 
 
 def start_server(port: int, workers: int = 0) -> subprocess.Popen:
+    """``streamlit run`` (``workers`` 0) or the team server, answering on ``port``."""
+    from solutions.ui.serve import start_worker, wait_healthy
     if workers:
-        cmd = [sys.executable, "-m", "solutions", "serve", "--workers", str(workers),
-               "--port", str(port)]
+        proc = subprocess.Popen([sys.executable, "-m", "solutions", "serve", "--workers",
+                                 str(workers), "--port", str(port)], cwd=ROOT,
+                                stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
     else:
-        cmd = [sys.executable, "-m", "streamlit", "run", str(ROOT / "streamlit_app.py"),
-               "--server.port", str(port), "--server.address", "127.0.0.1",
-               "--server.headless", "true", "--browser.gatherUsageStats", "false"]
-    proc = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.DEVNULL,
-                            stderr=subprocess.DEVNULL)
-    deadline = time.time() + 120
-    while time.time() < deadline:
-        try:
-            with urllib.request.urlopen(f"http://127.0.0.1:{port}/_stcore/health",
-                                        timeout=2) as r:
-                if r.status == 200:
-                    return proc
-        except OSError:
-            time.sleep(0.2)
-    proc.terminate()
-    raise SystemExit("the server did not answer its health check within 120 s")
+        proc = start_worker(port, ROOT / "streamlit_app.py")
+    if not wait_healthy(port, timeout=120):
+        proc.terminate()
+        raise SystemExit("the server did not answer its health check within 120 s")
+    return proc
 
 
 class Session:
