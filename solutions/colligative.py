@@ -25,8 +25,10 @@ pure water and ice coexist at the triple point (273.16 K); the freezing point at
 101.325 kPa is reported as 273.15 K − ΔT_f, which removes the 0.01 K offset of the
 pressure (common practice for solution freezing points).
 
-All root finding is vectorized (``solutions.roots.find_root``, Chandrupatla 1997, numpy only), so a sweep of
-many compositions is one call.
+All root finding is vectorized (``solutions.roots``, Chandrupatla 1997, numpy only), so a
+sweep of many compositions is one call. The freezing search does the composition sums of
+ln a_w once, evaluates only the functions of T at each step, and starts from a tight bracket
+(:func:`_solve_freezing`): a million compositions in about a second.
 """
 from __future__ import annotations
 
@@ -41,7 +43,7 @@ from .activity.models import ActivityTerms, activity_terms, check_model, describ
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
 from .errors import Caveat, DataError, OutOfRangeError, group_temperature_ranges, merge_caveats
-from .water import (ice_water_activity, ice_water_activity_thermo, saturation_pressure,
+from .water import (ice_water_activity_thermo, ln_ice_water_activity, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
                     supercooled_vapor_pressure, water_density)
 
@@ -61,8 +63,23 @@ def _ln_ice_at_triple() -> float:
     over Murphy–Koop supercooled liquid): −7e-8, not exactly 0, because the two published
     equations meet there only to their precision (about 1e-5 K). Freezing uses ln a_ice
     minus this offset, so pure water freezes at exactly the triple point on that scale and a
-    trace of solute gives a trace of depression, never a failed bracket."""
-    return float(np.log(ice_water_activity(T_TRIPLE)))
+    trace of solute gives a trace of depression, never a failed bracket. Evaluated on an
+    array, as the freezing residual is, so that the two agree to the last bit."""
+    return float(ln_ice_water_activity(np.array([T_TRIPLE]))[0])
+
+
+def _ln_ice(T):
+    """ln a_w of a solution at equilibrium with ice at ``T`` [K], referred to the triple
+    point (:func:`_ln_ice_at_triple`): the non-ideal model's freezing condition."""
+    out = ln_ice_water_activity(T)
+    out -= _ln_ice_at_triple()
+    return out
+
+
+def _ln_ice_thermo(T):
+    """ln a_w at equilibrium with ice from the enthalpy of fusion, referred to 273.15 K
+    (:func:`solutions.water.ice_water_activity_thermo`): the ideal model's condition."""
+    return np.log(ice_water_activity_thermo(T))
 
 
 def _tag(c: Caveat, about: str) -> Caveat:
@@ -201,41 +218,102 @@ def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTe
     N = comp.N
     if not comp.solvent.is_water:
         return _freezing_nonaqueous(comp, terms, bs, model)
-    nu_b = comp.particle_molality()
     from .limits import eutectic_caveats
     caveats.extend(eutectic_caveats(comp))
     if model == "dilute":
         Kf = _constants(comp).Kf_K_kg_per_mol
-        dT = Kf * nu_b
+        dT = Kf * comp.particle_molality()
         return T_MELT - dT, dT, caveats
+    no_solute = comp.particle_molality() == 0
     if model == "ideal":
-        def f(T, *b):
-            return terms.ln_a(list(b), T) - np.log(ice_water_activity_thermo(T))
-        lo, hi = T_ICE_THERMO_MIN, T_MELT
+        ln_ice, lo, hi = _ln_ice_thermo, T_ICE_THERMO_MIN, T_MELT
         T0 = T_MELT
     else:
-        ln_ice0 = _ln_ice_at_triple()
-
-        def f(T, *b):
-            return terms.ln_a(list(b), T) - (np.log(ice_water_activity(T)) - ln_ice0)
-        lo, hi = T_FREEZE_MIN, T_TRIPLE
+        ln_ice, lo, hi = _ln_ice, T_FREEZE_MIN, T_TRIPLE
         T0 = T_TRIPLE
-    Tf = _bracketed_root(f, lo, hi, bs, N)
+    # arrays of shape (N,) are updated in place: a sweep of a million compositions keeps
+    # only the molalities, the roots and the depressions
+    Tf = _solve_freezing(terms, bs, ln_ice, lo, hi, N)
     dT = T0 - Tf
-    if np.any(nu_b == 0):
-        dT = np.where(nu_b == 0, 0.0, dT)
-    far, cav = beyond_data(terms, bs, np.where(np.isfinite(Tf), Tf, T_MELT))
+    dT[no_solute] = 0.0
+    Tf[~np.isfinite(Tf)] = T_MELT
+    far, cav = beyond_data(terms, bs, Tf)
     caveats.extend(cav)
-    dT = np.where(far, np.nan, dT)
+    dT[far] = np.nan
     bad = ~np.isfinite(dT) & ~far
     if np.any(bad):
         caveats.append(Caveat("model-range",
                               f"the model finds no freezing point above {lo - 273.15:.0f} °C "
                               "(outside the range its data cover); not reported", None))
+    Tf = np.subtract(T_MELT, dT, out=Tf)
     if np.any(np.isfinite(dT)):
-        Tf_ok = np.where(bad, T_MELT, T_MELT - dT)
-        caveats.extend(terms.caveats(bs, Tf_ok))
-    return T_MELT - dT, dT, caveats
+        Tf[bad] = T_MELT    # range notes at the melting point where no root was found
+        caveats.extend(terms.caveats(bs, Tf))
+        Tf[bad] = np.nan
+    return Tf, dT, caveats
+
+
+def _solve_freezing(terms: ActivityTerms, bs, ln_ice, lo: float, hi: float, N: int):
+    """Roots of ln a_w(b, T) = ln_ice(T) in [lo, hi] [K], shape (N,) (NaN where none).
+
+    Solved :data:`solutions.roots.ROOT_CHUNK` compositions at a time, so the working arrays
+    stay small; for each chunk the composition sums of ln a_w are done once
+    (:meth:`ActivityTerms.at_compositions`) and the search evaluates the functions of T
+    only. The search starts from a tight bracket: T₁ is the ice temperature of the water
+    activity at ``hi``, T₂ that of the water activity at T₁ (a fixed-point step, which
+    contracts by (∂ln a_w/∂T)/(d ln a_ice/dT), a few hundredths), and the bracket is T₂ ±
+    (|T₂ − T₁|/4 + 0.1 mK). Where that bracket holds no root the search runs on the whole
+    [lo, hi], so every root found on [lo, hi] before is still found, to the tolerance.
+    """
+    Tf = np.empty(N)
+    table = _ice_inverse(ln_ice, lo, hi)
+    for k in range(0, N, roots.ROOT_CHUNK):
+        sl = slice(k, min(k + roots.ROOT_CHUNK, N))
+        n = sl.stop - k
+        ln_aw, args = terms.at_compositions([b[sl] for b in bs])
+        args = [np.broadcast_to(a, (n,)) for a in args]
+
+        def f(T, *args):
+            r = ln_aw(T, *args)
+            r -= ln_ice(T)
+            return r
+        with np.errstate(all="ignore"):
+            T1 = _ice_temperature(ln_aw(hi, *args), table)
+            T2 = _ice_temperature(ln_aw(T1, *args), table)
+            d = np.abs(T2 - T1)
+            d *= 0.25
+            d += 1e-4
+        Tc = _bracketed_root(f, np.maximum(T2 - d, lo), np.minimum(T2 + d, hi), args, n)
+        miss = np.isnan(Tc)
+        if np.any(miss):
+            Tc[miss] = _bracketed_root(f, lo, hi, [a[miss] for a in args], int(miss.sum()))
+        Tf[sl] = Tc
+    return Tf
+
+
+@cache
+def _ice_inverse(ln_ice, lo: float, hi: float, n: int = 4096):
+    """T as a function of y = ln_ice(T) on [lo, hi] [K], tabulated at n equally spaced y
+    (a first guess only; the root is then found on the exact equation): (y₀, 1/Δy, T)."""
+    Tg = np.linspace(lo, hi, 16 * n)
+    yg = ln_ice(Tg)
+    y = np.linspace(yg[0], yg[-1], n)
+    return float(y[0]), (n - 1) / float(y[-1] - y[0]), np.interp(y, yg, Tg)
+
+
+def _ice_temperature(y, table) -> np.ndarray:
+    """The tabulated inverse of the ice curve (:func:`_ice_inverse`) at ``y`` [1], clipped
+    to the table's range; linear between nodes."""
+    y0, inv_dy, Ty = table
+    u = np.asarray(y, dtype=float) - y0
+    u *= inv_dy
+    np.clip(u, 0.0, Ty.size - 1.0, out=u)
+    u[np.isnan(u)] = 0.0
+    i = u.astype(np.intp)
+    np.minimum(i, Ty.size - 2, out=i)
+    u -= i
+    lo = Ty[i]
+    return lo + u * (Ty[i + 1] - lo)
 
 
 def _freezing_nonaqueous(comp, terms, bs, model):

@@ -163,7 +163,7 @@ def eutectic_caveats(comp: Composition) -> list[Caveat]:
         if e is None:
             continue
         r_E, T_E, _ = e
-        r = comp.m[:, cols].sum(axis=1) / comp.m_solvent
+        r = (comp.n[:, cols] * comp.M[cols]).sum(axis=1) / comp.m_solvent  # no (N, k) masses
         if np.any(r > r_E * (1 + 1e-9)):
             w_E = r_E / (1 + r_E) * 100
             out.append(Caveat(

@@ -76,6 +76,12 @@ def find_root(f, init, /, *, args=(), tolerances=None, maxiter=None) -> RootResu
     min(|f(a)|, |f(b)|) (converged), when its bracket holds no sign change, or when a value
     is not finite (failed, ``x`` NaN). Only the elements still running are evaluated.
     """
+    return _find_root(f, init, args, tolerances, maxiter)
+
+
+def _find_root(f, init, args, tolerances, maxiter, f_init=None) -> RootResult:
+    """:func:`find_root`; ``f_init``: f at the two ends of ``init`` when the caller has
+    already evaluated it there (then f is not evaluated there again)."""
     tol = dict(tolerances or {})
     unknown = set(tol) - {"xatol", "xrtol", "fatol", "frtol"}
     if unknown:
@@ -94,8 +100,9 @@ def find_root(f, init, /, *, args=(), tolerances=None, maxiter=None) -> RootResu
     n = a.size
     x1, x2 = a.reshape(n).copy(), b.reshape(n).copy()
     A = [v.reshape(n) for v in bargs]
-    f1 = np.asarray(f(x1, *A), dtype=float).reshape(n).copy()
-    f2 = np.asarray(f(x2, *A), dtype=float).reshape(n).copy()
+    if f_init is None:
+        f_init = (f(x1, *A), f(x2, *A))
+    f1, f2 = (np.asarray(v, dtype=float).reshape(n).copy() for v in f_init)
     frtol_i = frtol * np.minimum(np.abs(f1), np.abs(f2))
 
     # results, written as elements stop
@@ -208,10 +215,13 @@ def bracketed_root(f, lo, hi, bs, N, *, xatol=1e-9, xrtol=1e-13):
     out[exact_hi] = hi[exact_hi]
     ok &= ~exact_hi
     if np.any(ok):
-        sub = tuple(a[ok] for a in args)
+        if np.all(ok):   # every bracket holds a root: no copies
+            sub, ends, f_ends = args, (lo, hi), (flo, fhi)
+        else:
+            sub = tuple(a[ok] for a in args)
+            ends, f_ends = (lo[ok], hi[ok]), (flo[ok], fhi[ok])
         with np.errstate(all="ignore"):
-            res = find_root(f, (lo[ok], hi[ok]), args=sub,
-                           tolerances={"xatol": xatol, "xrtol": xrtol})
+            res = _find_root(f, ends, sub, {"xatol": xatol, "xrtol": xrtol}, None, f_ends)
         out[ok] = np.where(res.success, res.x, np.nan)
     return out
 

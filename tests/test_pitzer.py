@@ -52,6 +52,30 @@ def test_aphi_0C():
     assert abs(debye_huckel_Aphi(273.15) - 0.3770) <= 0.001
 
 
+def test_aphi_is_the_crp94_chebyshev_series():
+    """Clegg, Rard & Pitzer (1994) Table 11: A_phi = Σ a_k T_k(X), X = (2T − 607.3)/139,
+    summed here by numpy's Chebyshev routine from the table's coefficients; the model sums
+    the same polynomial in powers of X. Equal within 1e-15 over 234.15–353.15 K."""
+    T = np.linspace(234.15, 353.15, 20001)
+    series = np.polynomial.chebyshev.chebval((2 * T - 607.3) / 139, pitzer._APHI_CRP94)
+    assert np.max(np.abs(debye_huckel_Aphi(T) - series)) < 1e-15
+
+
+def test_each_piece_evaluated_only_where_it_applies(salts):
+    """A_phi, binary parameters and mixing parameters on arrays that span their hand-over
+    windows (both pieces evaluated, then selected or blended) equal, to the last bit, the
+    same temperatures one at a time (only the piece that applies evaluated)."""
+    T = np.concatenate([np.linspace(250.0, 390.0, 141), [273.15, 298.15, 353.15, 373.15]])
+    one = np.array([debye_huckel_Aphi(t) for t in T])
+    assert np.array_equal(debye_huckel_Aphi(T), one)
+    for name in ("NaCl", "MgCl2", "Na2SO4"):
+        arr = pitzer_parameters(salts[name], T)
+        for p in ("beta0", "beta1", "beta2", "Cphi"):
+            assert np.array_equal(arr[p], [pitzer_parameters(salts[name], t)[p] for t in T])
+    for par in pitzer.load_mixing_parameters().values():
+        assert np.array_equal(par(T), [par(t) for t in T])
+
+
 def test_aphi_pieces_are_joined_smoothly():
     """No jump where the CRP94 fit hands over to Møller (1988), and held values outside."""
     T = np.linspace(340.0, 390.0, 5001)
@@ -460,6 +484,24 @@ def test_single_salt_mixture_equals_binary(salts, name):
     assert np.max(np.abs(mix.osmotic_coefficient(m, T) - osmotic_coefficient(s, b, T))) <= 1e-12
     assert np.max(np.abs(mix.ln_water_activity(m, T) - ln_water_activity(s, b, T))) <= 1e-12
     assert mix.notes == ()
+
+
+def test_composition_sums_give_the_same_water_activity():
+    """ln a_w split into composition-only sums and the functions of T (what a freezing-point
+    search evaluates at each step) equals the direct evaluation, to 1e-14, for a six-salt
+    brine with unsymmetrical mixing terms over 250–350 K, at zero molality too."""
+    mix = pitzer_mixture(["NaCl", "KCl", "CaCl2", "MgCl2", "Na2SO4", "NaHCO3"])
+    rng = np.random.default_rng(4)
+    b = rng.uniform(0.0, 1.0, (400, 6)) * (rng.random((400, 6)) < 0.7)
+    b[0] = 0.0
+    m = mix.ion_molalities(b)
+    T = rng.uniform(250.0, 350.0, 400)
+    c, sums = mix.ln_water_activity_sums(m)
+    split = c + mix.ln_water_activity_at(T, *sums)
+    assert np.max(np.abs(split - mix.ln_water_activity(m, T))) < 1e-14
+    keep = rng.random(400) < 0.5   # any subset of the sums is that subset of compositions
+    part = c[keep] + mix.ln_water_activity_at(T[keep], *(v[keep] for v in sums))
+    assert np.max(np.abs(part - mix.ln_water_activity(m[keep], T[keep]))) < 1e-14
 
 
 def test_zero_molality_gives_phi_one():

@@ -10,7 +10,8 @@ import numpy as np
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from solutions.roots import CONVERGED, SIGN_ERROR, bisect_edge, find_root, finite_edge
+from solutions.roots import (CONVERGED, SIGN_ERROR, bisect_edge, bracketed_root, find_root,
+                            finite_edge)
 
 
 def test_closed_form_roots():
@@ -63,6 +64,27 @@ def test_same_results_as_scipy(tol):
     assert np.array_equal(a.status, b.status)
     assert np.array_equal(a.x, b.x, equal_nan=True)
     assert np.array_equal(a.nfev, b.nfev)
+
+
+def test_bracketed_root_evaluates_each_end_once():
+    """bracketed_root checks the ends for a sign change and hands their values to the
+    solver: the same roots as find_root (checked against SciPy above) with the same number
+    of evaluations, the ends evaluated once; no root (NaN) where a bracket holds none."""
+    rng = np.random.default_rng(2)
+    c, p = rng.uniform(0.1, 10, 500), rng.uniform(0.5, 5, 500)
+    seen = []
+
+    def f(x, c, p):
+        seen.append(np.size(x))
+        return x ** p - c + 0.3 * np.sin(5 * x)
+
+    hi = np.where(np.arange(500) % 50 == 0, 1e-3, 6.0)   # every 50th: no sign change
+    ref = find_root(f, (0.0, hi), args=(c, p), tolerances={"xatol": 1e-9, "xrtol": 1e-13})
+    n_ref = sum(seen)
+    seen.clear()
+    x = bracketed_root(f, 0.0, hi, (c, p), 500)
+    assert np.array_equal(x, np.where(ref.success, ref.x, np.nan), equal_nan=True)
+    assert sum(seen) == n_ref and not ref.success.all()
 
 
 @settings(max_examples=200, deadline=None)

@@ -13,6 +13,7 @@ from solutions.water import (
     ice_water_activity,
     ice_water_activity_thermo,
     liquid_density,
+    ln_ice_water_activity,
     saturation_pressure,
     saturation_temperature,
     specific_volume_liquid,
@@ -191,6 +192,27 @@ def test_ice_activity_vapor_pressure_ratio_and_thermodynamic_route_agree():
     assert np.max(np.abs(diff)) < 1e-3
 
 
+def test_log_form_of_ice_activity():
+    """ln a_w(ice) in log form (ln p_subl − ln p_liq from the two logarithmic equations)
+    equals the logarithm of the ratio of the pressures (IAPWS R14-08 over Murphy & Koop
+    2005 Eq. 10) to 1e-14 from 123 K to the triple point; −10 °C gives ln 0.907."""
+    T = np.linspace(123.0, 273.16, 20001)
+    d = ln_ice_water_activity(T) - np.log(sublimation_pressure(T) / supercooled_vapor_pressure(T))
+    assert np.max(np.abs(d)) < 1e-14
+    assert np.exp(ln_ice_water_activity(263.15)) == pytest.approx(0.907, abs=5e-4)
+
+
+def test_supercooled_equation_as_printed():
+    """Murphy & Koop (2005) Eq. (10) typed here as printed, with tanh; the implementation
+    takes tanh y as 1 − 2/(e^(2y) + 1): the same pressures to the rounding of ln p (5e-15
+    relative)."""
+    T = np.linspace(123.0, 332.0, 2001)
+    lnp = (54.842763 - 6763.22 / T - 4.210 * np.log(T) + 0.000367 * T
+           + np.tanh(0.0415 * (T - 218.8))
+           * (53.878 - 1331.22 / T - 9.44523 * np.log(T) + 0.014025 * T))
+    np.testing.assert_allclose(supercooled_vapor_pressure(T), np.exp(lnp), rtol=5e-15, atol=0)
+
+
 def test_ice_activity_is_one_at_melting_and_falls_with_temperature():
     """a_w(ice) = 1 at the melting point and decreases monotonically on cooling."""
     assert ice_water_activity_thermo(273.15) == pytest.approx(1.0, abs=1e-15)
@@ -222,6 +244,7 @@ def test_supercooled_branch_joins_if97_at_freezing():
     lambda: supercooled_vapor_pressure(100.0),
     lambda: ice_water_activity_thermo(230.0),
     lambda: ice_water_activity(274.0),
+    lambda: ln_ice_water_activity(274.0),
 ])
 def test_out_of_range_raises(call):
     """Outside each equation's published validity the functions raise, never extrapolate."""
@@ -247,6 +270,7 @@ def test_out_of_range_error_reports_the_offending_value():
     (sublimation_pressure, np.array([[200.0, 230.0, 250.0], [260.0, 270.0, 273.16]])),
     (supercooled_vapor_pressure, np.array([[200.0, 230.0, 250.0], [260.0, 270.0, 300.0]])),
     (ice_water_activity, np.array([[200.0, 230.0, 250.0], [260.0, 270.0, 273.0]])),
+    (ln_ice_water_activity, np.array([[200.0, 230.0, 250.0], [260.0, 270.0, 273.0]])),
     (ice_water_activity_thermo, np.array([[240.0, 245.0, 250.0], [260.0, 270.0, 273.0]])),
     (enthalpy_of_fusion, np.array([[240.0, 245.0, 250.0], [260.0, 270.0, 273.0]])),
 ])

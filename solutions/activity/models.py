@@ -44,7 +44,7 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, replace
-from functools import cache
+from functools import cache, partial
 
 import numpy as np
 
@@ -149,44 +149,75 @@ class ActivityTerms:
         return self.electrolytes.ion_molalities(
             [np.broadcast_to(np.asarray(b, dtype=float), shape) for b in salt_b])
 
-    def _electrolyte_ln_a(self, bs, T):
-        """ln a_w of all salts together by the Pitzer mixed-electrolyte equations."""
-        m = self._ion_molalities(bs, T)
-        flat = m.reshape(-1, m.shape[-1])
-        Tf = np.broadcast_to(np.asarray(T, dtype=float), m.shape[:-1]).reshape(-1)
-        return self.electrolytes.ln_water_activity(flat, Tf).reshape(m.shape[:-1])
-
     def molalities(self, comp: Composition) -> list[np.ndarray]:
         """Group molalities [mol/kg], one array of shape (N,) per group."""
         b = comp.molality()
         return [b[:, list(c)].sum(axis=1) for c in self.columns]
 
     def ln_a(self, bs, T):
-        """ln a of the solvent [1] at group molalities ``bs`` [mol/kg] and ``T`` [K]."""
+        """ln a of the solvent [1] at group molalities ``bs`` [mol/kg] and ``T`` [K]
+        (broadcast together)."""
         T = np.asarray(T, dtype=float)
         if not bs:
             return np.zeros(np.shape(T))
-        nu_b = sum(nu * b for nu, b in zip(self.ions, bs))
-        if self.model == "dilute":
-            return -self.M_solvent * nu_b + 0.0 * T
-        if self.model == "ideal":
-            return -np.log1p(self.M_solvent * nu_b) + 0.0 * T
-        out = 0.0 * T
-        if self.electrolytes is not None:
-            out = out + self._electrolyte_ln_a(bs, T)
-        org = self._nrtl(bs)
-        if org is not None:
-            out = out + organics.ln_water_activity(org[1], org[2], T, self.M_solvent)
-        for kind, par, nu, b in zip(self.kinds, self.params, self.ions, bs):
-            if kind == "nrtl":
-                continue
-            if kind == "pitzer":
-                continue  # all salts together, in one mixed-electrolyte term above
-            elif kind == "norrish":
-                out = out + nonelectrolytes.ln_water_activity(par, b)
-            else:
-                out = out - np.log1p(nu * b * self.M_solvent)
-        return out
+        shape = np.broadcast_shapes(np.shape(T), *(np.shape(b) for b in bs))
+        g, args = self.at_compositions(
+            [np.broadcast_to(np.asarray(b, dtype=float), shape).reshape(-1) for b in bs])
+        return g(np.broadcast_to(T, shape).reshape(-1), *args).reshape(shape)
+
+    def at_compositions(self, bs):
+        """``(g, args)`` with ln a(bs, T) = g(T, *args) [1] for any ``T`` [K] (scalar or
+        shaped like the molalities), to rounding: every sum over the composition is done
+        here, once, so that a search over T (freezing point) evaluates only the functions of
+        T. ``args`` are arrays of shape (N,); taking the same subset of each gives ``g`` of
+        that subset of the compositions (as a root finder that drops converged points does).
+
+        bs : group molalities [mol/kg], one array (N,) per group.
+        """
+        bs = [np.atleast_1d(np.asarray(b, dtype=float)) for b in bs]
+        N = max((b.shape[0] for b in bs), default=1)
+        c = np.zeros(N)
+        parts: list[tuple] = []     # (function of (T, *sums), its number of sums)
+        sums: list[np.ndarray] = []
+        if bs and self.model in ("dilute", "ideal"):
+            nu_b = sum(nu * b for nu, b in zip(self.ions, bs))
+            c = c + (-self.M_solvent * nu_b if self.model == "dilute"
+                     else -np.log1p(self.M_solvent * nu_b))
+        elif bs:
+            if self.electrolytes is not None:
+                ce, se = self.electrolytes.ln_water_activity_sums(self._ion_molalities(bs))
+                c += ce
+                parts.append((self.electrolytes.ln_water_activity_at, len(se)))
+                sums.extend(se)
+            org = self._nrtl(bs)
+            if org is not None:
+                co, so = organics.ln_water_activity_sums(org[1], org[2], self.M_solvent)
+                c += co
+                parts.append((partial(organics.ln_water_activity_at, org[1]), len(so)))
+                sums.extend(so)
+            for kind, par, nu, b in zip(self.kinds, self.params, self.ions, bs):
+                if kind in ("nrtl", "pitzer"):
+                    continue  # all organics in one NRTL term, all salts in one Pitzer term
+                if kind == "norrish":
+                    c += nonelectrolytes.ln_water_activity(par, b)
+                else:
+                    c -= np.log1p(nu * b * self.M_solvent)
+        parts = tuple(parts)
+
+        def g(T, c, *sums):
+            out, k = None, 0
+            for fn, n in parts:
+                v = fn(T, *sums[k:k + n])
+                k += n
+                if out is None:
+                    out = v
+                else:
+                    out += v
+            if out is None:
+                return c + 0.0 * np.asarray(T, dtype=float)
+            out += c
+            return out
+        return g, (c, *sums)
 
     def _nrtl(self, bs):
         """(labels, pairs, molalities) of the NRTL organics, or None."""

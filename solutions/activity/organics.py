@@ -32,6 +32,7 @@ from ..ingredients import M_WATER
 from .nrtl import ln_gamma
 
 __all__ = ["NrtlPair", "NrtlDataError", "load_nrtl_water", "ln_gammas", "ln_water_activity",
+           "ln_water_activity_sums", "ln_water_activity_at",
            "mole_fractions", "withheld", "validity", "BEYOND_DATA_MARGIN",
            "ORGANIC_ALPHA"]
 
@@ -171,6 +172,15 @@ def ln_water_activity(pairs, bs, T, M_solvent: float = M_WATER):
 
     Vectorized: each b of shape (N,), T scalar or (N,). Returns shape (N,).
 
+    ln γ_w is the multicomponent NRTL expression (:func:`solutions.activity.nrtl.ln_gamma`)
+    with τ = 0 between organics, which closes to (water 0, organics l, X = Σ_l x_l)
+
+        ln γ_w = (Σ_l x_l τ_l0 G_l0)(Σ_l x_l G_l0) / (x_0 + Σ_l x_l G_l0)²
+                 + X Σ_l x_l τ_0l G_0l / (x_0 G_0l + X)²
+
+    (one organic: the binary NRTL form), evaluated by :func:`ln_water_activity_sums` and
+    :func:`ln_water_activity_at`.
+
     Ethylene glycol, 48 % w/w (14.87 mol/kg): the CRC table's freezing point of −33.30
     °C puts a_w at the ice value there, 0.723 (IAPWS ice over Murphy–Koop water):
 
@@ -179,21 +189,70 @@ def ln_water_activity(pairs, bs, T, M_solvent: float = M_WATER):
     0.724
     """
     pairs = tuple(pairs)
-    if len(pairs) == 1:  # the closed binary form: the same numbers, faster
-        b = np.asarray(bs[0], dtype=float)
-        x2 = b * M_solvent / (1.0 + b * M_solvent)
-        x1 = 1.0 - x2
-        p = pairs[0]
+    c, sums = ln_water_activity_sums(pairs, bs, M_solvent)
+    out = c + ln_water_activity_at(pairs, T, *sums)
+    shape = np.broadcast_shapes(out.shape, np.shape(T))
+    return out if out.shape == shape else np.broadcast_to(out, shape).copy()
+
+
+def ln_water_activity_sums(pairs, bs, M_solvent: float = M_WATER):
+    """ln a_w split for many temperatures at fixed composition: ``(c, sums)`` with
+    ln a_w(bs, T) = c + :func:`ln_water_activity_at` ``(pairs, T, *sums)``, c = ln x_w [-]
+    and ``sums`` composition-only arrays (N,): x_w, X = Σ_l x_l, the sums Σ_l x_l G_l0,
+    Σ_l x_l τ_l0 G_l0 and Σ_l x_l τ_0l G_0l / (x_0 G_0l + X)² over the pairs whose τ does not
+    depend on T, and x_l of each pair whose τ does. The same subset of every array gives
+    the same subset of compositions.
+
+    pairs : the k :class:`NrtlPair` of the organics; bs : their molalities [mol/kg], k
+    arrays (N,) or scalars.
+    """
+    bs = [np.atleast_1d(np.asarray(b, dtype=float)) for b in bs]
+    N = max((b.shape[0] for b in bs), default=1)
+    r = np.zeros(N)                         # n_organics / n_water
+    for b in bs:
+        r += b * M_solvent
+    x0 = 1.0 / (1.0 + r)
+    X = r * x0
+    sg, stg, tail = np.zeros(N), np.zeros(N), np.zeros(N)
+    x_dep = []
+    for p, b in zip(pairs, bs):
+        xl = b * M_solvent * x0
+        if p.temperature_dependent:
+            x_dep.append(xl)
+            continue
+        t12, t21 = p.taus(1.0)
+        G12, G21 = np.exp(-p.alpha * t12), np.exp(-p.alpha * t21)
+        sg += xl * G21
+        stg += xl * (t21 * G21)
+        d = x0 * G12 + X
+        tail += xl * (t12 * G12) / (d * d)
+    return -np.log1p(r), (x0, X, sg, stg, tail, *x_dep)
+
+
+def ln_water_activity_at(pairs, T, x0, X, sg, stg, tail, *x_dep):
+    """ln γ_w [-] from the sums of :func:`ln_water_activity_sums`: only the pairs whose τ
+    depends on T are evaluated. T [K], scalar or shaped like the sums."""
+    T = np.asarray(T, dtype=float)
+    first = True
+    for p, xl in zip((p for p in pairs if p.temperature_dependent), x_dep):
         t12, t21 = p.taus(T)
         G12 = np.exp(-p.alpha * t12)
         G21 = np.exp(-p.alpha * t21)
-        d1 = x1 + x2 * G21
-        d2 = x2 + x1 * G12
-        lg1 = x2 * x2 * (t21 * (G21 / d1) ** 2 + t12 * G12 / (d2 * d2))
-        return np.atleast_1d(np.log1p(-x2) + lg1)
-    x = mole_fractions(bs, M_solvent)
-    lg = ln_gammas(pairs, x, T)
-    return np.log(x[:, 0]) + lg[:, 0]
+        xg = xl * G21
+        d = x0 * G12
+        d += X
+        d *= d
+        if first:   # the composition-only sums are not modified in place
+            sg, stg, tail, first = sg + xg, stg + t21 * xg, tail + xl * (t12 * G12) / d, False
+        else:
+            sg += xg
+            stg += t21 * xg
+            tail += xl * (t12 * G12) / d
+    den = x0 + sg
+    out = stg * sg
+    out /= den * den
+    out += X * tail
+    return out
 
 
 def beyond_data(pairs, bs, M_solvent: float = M_WATER) -> np.ndarray:
@@ -202,13 +261,25 @@ def beyond_data(pairs, bs, M_solvent: float = M_WATER) -> np.ndarray:
     The organics' total salt-free mole fraction is compared with the mole-fraction
     weighted mean of their fitted limits ``x2_max`` times :data:`BEYOND_DATA_MARGIN`.
     """
-    x = mole_fractions(bs, M_solvent)
-    xo = x[:, 1:]
-    tot = xo.sum(axis=1)
-    lim = np.array([p.x2_max for p in pairs])
-    with np.errstate(invalid="ignore", divide="ignore"):
-        mean_lim = np.where(tot > 0, (xo * lim).sum(axis=1) / np.where(tot > 0, tot, 1), 1.0)
-    return tot > BEYOND_DATA_MARGIN * mean_lim
+    # column by column, in the order of the sums over rows of mole_fractions(), so that the
+    # values are those of the (N, 1 + k) array without building it (large sweeps)
+    bs = [np.atleast_1d(np.asarray(b, dtype=float)) for b in bs]
+    N = max((b.shape[0] for b in bs), default=1)
+    bs = [np.broadcast_to(b, (N,)) for b in bs]
+    n_tot = np.full(N, 1.0 / M_solvent)
+    for b in bs:
+        n_tot += b
+    tot, lim_sum, x = np.zeros(N), np.zeros(N), np.empty(N)
+    for p, b in zip(pairs, bs):
+        np.divide(b, n_tot, out=x)
+        tot += x
+        x *= p.x2_max
+        lim_sum += x
+    some = tot > 0
+    np.divide(lim_sum, tot, out=lim_sum, where=some)
+    lim_sum[~some] = 1.0
+    lim_sum *= BEYOND_DATA_MARGIN
+    return tot > lim_sum
 
 
 def withheld(labels, pairs, bs, M_solvent: float = M_WATER, T=None):

@@ -72,6 +72,9 @@ _APHI_CRP94 = np.array([
     0.461489672579e-6, -0.177069754948e-6, 0.612464488231e-7,
     -0.175689013085e-7,
 ])
+# The same series as a polynomial in powers of X (numpy's cheb2poly, once): summed by
+# Horner's rule it equals the Chebyshev sum within 1e-16 over -1 <= X <= 1, at half the cost.
+_APHI_CRP94_POWERS = tuple(float(c) for c in np.polynomial.chebyshev.cheb2poly(_APHI_CRP94))
 # Møller (1988) A_phi coefficients for his eq. 13 form.
 _APHI_M88 = (3.36901532e-1, -6.32100430e-4, 9.14252359e00, -1.35143986e-2,
              2.26089488e-3, 1.92118597e-6, 4.52586464e1, 0.0)
@@ -85,11 +88,18 @@ def _m88_eq13(T: np.ndarray, a) -> np.ndarray:
             + a[5] * T**2 + a[6] / (680.0 - T) + a[7] / (T - 227.0))
 
 
-def _phreeqc_analytic(T: np.ndarray, a) -> np.ndarray:
-    """A0 + A1(1/T - 1/Tr) + A2 ln(T/Tr) + A3(T - Tr) + A4(T^2 - Tr^2) + A5(1/T^2 - 1/Tr^2)."""
+def _phreeqc_basis(T: np.ndarray) -> tuple[np.ndarray, ...]:
+    """The functions of T that the ``phreeqc_analytic`` coefficients multiply."""
     Tr = T_REF
-    return (a[0] + a[1] * (1.0 / T - 1.0 / Tr) + a[2] * np.log(T / Tr)
-            + a[3] * (T - Tr) + a[4] * (T**2 - Tr**2) + a[5] * (1.0 / T**2 - 1.0 / Tr**2))
+    return (1.0 / T - 1.0 / Tr, np.log(T / Tr), T - Tr, T**2 - Tr**2, 1.0 / T**2 - 1.0 / Tr**2)
+
+
+def _phreeqc_analytic(T: np.ndarray, a, basis=None) -> np.ndarray:
+    """A0 + A1(1/T - 1/Tr) + A2 ln(T/Tr) + A3(T - Tr) + A4(T^2 - Tr^2) + A5(1/T^2 - 1/Tr^2);
+    ``basis``: :func:`_phreeqc_basis` of T when already computed (shared by the parameters
+    of one set)."""
+    u = _phreeqc_basis(T) if basis is None else basis
+    return a[0] + a[1] * u[0] + a[2] * u[1] + a[3] * u[2] + a[4] * u[3] + a[5] * u[4]
 
 
 @dataclass(frozen=True)
@@ -109,7 +119,10 @@ class TFunction:
     form: str
     coeffs: tuple[float, ...]
 
-    def __call__(self, T) -> np.ndarray:
+    def __call__(self, T, bases: dict | None = None) -> np.ndarray:
+        """Value at ``T`` [K]. ``bases``: a dict shared by several functions evaluated at
+        the same ``T`` (the parameters of one set), so that the functions of T a form's
+        coefficients multiply are computed once."""
         T = np.asarray(T, dtype=float)
         a = self.coeffs
         if self.form == "const":
@@ -120,7 +133,11 @@ class TFunction:
             if self.form == "M88_eq13":
                 return _m88_eq13(T, a)
             if self.form == "phreeqc_analytic":
-                return _phreeqc_analytic(T, a)
+                if bases is None:
+                    return _phreeqc_analytic(T, a)
+                if self.form not in bases:
+                    bases[self.form] = _phreeqc_basis(T)
+                return _phreeqc_analytic(T, a, bases[self.form])
         raise SolutionsError(f"unknown Pitzer temperature-function form {self.form!r}")
 
 
@@ -139,6 +156,12 @@ class PitzerParameterSet:
     beta2: TFunction
     Cphi: TFunction
     source: str
+
+    def values(self, T: np.ndarray) -> dict[str, np.ndarray]:
+        """beta0, beta1, beta2, Cphi at ``T`` [K], arrays shaped like ``T``."""
+        bases: dict = {}
+        return {p: np.broadcast_to(getattr(self, p)(T, bases), T.shape).astype(float)
+                for p in _PARAMS}
 
 
 @dataclass(frozen=True)
@@ -297,7 +320,8 @@ def debye_huckel_Aphi(T):
     --------
     234.15-373.15 K: Chebyshev series of Clegg, Rard & Pitzer (1994), App. II,
     Table 11, A_phi = sum_k a_k T_k(X), X = (2T - 607.3)/139 (a fit to the
-    dielectric constant of Archer & Wang 1990). Above 373.15 K: Møller (1988),
+    dielectric constant of Archer & Wang 1990), summed as the same polynomial
+    in powers of X. Above 373.15 K: Møller (1988),
     A_phi = a1 + a2 T + a3/T + a4 ln T + a5/(T-263) + a6 T^2 + a7/(680-T).
     The two are blended smoothly over 353.15-373.15 K, where they differ by
     less than 0.0007. Below 234.15 K the value at 234.15 K is held (the series
@@ -326,18 +350,57 @@ def debye_huckel_Aphi(T):
         bad = float(np.min(T))
         raise OutOfRangeError("temperature", bad, 0.0, None, "K",
                               "absolute temperature must be positive")
-    Tc = np.clip(T, *APHI_CRP94_RANGE)
-    crp = np.polynomial.chebyshev.chebval((2.0 * Tc - 607.3) / 139.0, _APHI_CRP94)
-    Tm = np.clip(T, APHI_SWITCH[0], APHI_M88_RANGE[1])
-    m88 = _m88_eq13(Tm, _APHI_M88)
-    w = _smoothstep((T - APHI_SWITCH[0]) / (APHI_SWITCH[1] - APHI_SWITCH[0]))
-    out = (1.0 - w) * crp + w * m88
+    # each equation is evaluated only where it has weight (below the switch window the
+    # blend is the Chebyshev series exactly, above it the Møller equation exactly)
+    crp = m88 = None
+    if not np.all(T >= APHI_SWITCH[1]):
+        X = np.clip(T, *APHI_CRP94_RANGE)
+        X *= 2.0
+        X -= 607.3
+        X /= 139.0
+        crp = np.full_like(X, _APHI_CRP94_POWERS[-1])
+        for a in _APHI_CRP94_POWERS[-2::-1]:
+            crp *= X
+            crp += a
+    if not np.all(T <= APHI_SWITCH[0]):
+        Tm = np.clip(T, APHI_SWITCH[0], APHI_M88_RANGE[1])
+        m88 = _m88_eq13(Tm, _APHI_M88)
+    if m88 is None:
+        out = np.asarray(crp, dtype=float)
+    elif crp is None:
+        out = np.asarray(m88, dtype=float)
+    else:
+        w = _smoothstep((T - APHI_SWITCH[0]) / (APHI_SWITCH[1] - APHI_SWITCH[0]))
+        out = (1.0 - w) * crp + w * m88
     return out[()] if out.ndim == 0 else out
 
 
 def _blend_weight(T: np.ndarray) -> np.ndarray:
     lo, hi = BLEND_WINDOW
     return _smoothstep((T - lo) / (hi - lo))
+
+
+def _blended(low, high, T: np.ndarray):
+    """``low(T)`` below :data:`BLEND_WINDOW`, ``high(T)`` above it, the smooth blend
+    (1 − w) low + w high inside; ``low`` and ``high`` return a value or a dict of values.
+    Where every T lies on one side only that side's set is evaluated; the unused set may
+    sit on a pole of its equation (e.g. 1/(T-263)), so it is selected, never multiplied
+    by a zero weight."""
+    lo, hi = BLEND_WINDOW
+    if np.all(T <= lo):
+        return low(T)
+    if np.all(T >= hi):
+        return high(T)
+    w = _blend_weight(T)
+    pl, ph = low(T), high(T)
+
+    def mix(a, b):
+        with np.errstate(invalid="ignore", over="ignore"):
+            mixed = (1.0 - w) * a + w * b
+        return np.where(w <= 0.0, a, np.where(w >= 1.0, b, mixed))
+    if isinstance(pl, dict):
+        return {p: mix(pl[p], ph[p]) for p in pl}
+    return mix(pl, ph)
 
 
 def pitzer_parameters(salt: PitzerSalt, T) -> dict[str, np.ndarray]:
@@ -366,20 +429,9 @@ def pitzer_parameters(salt: PitzerSalt, T) -> dict[str, np.ndarray]:
     T = np.asarray(T, dtype=float)
     sets = salt.sets
     if len(sets) == 1:
-        s = sets[0]
-        return {p: np.broadcast_to(getattr(s, p)(T), T.shape).astype(float) for p in _PARAMS}
+        return sets[0].values(T)
     low, high = sets
-    w = _blend_weight(T)
-    out = {}
-    for p in _PARAMS:
-        pl = getattr(low, p)(T)
-        ph = getattr(high, p)(T)
-        # The unused set may sit on a pole of its equation (e.g. 1/(T-263));
-        # select rather than multiply by a zero weight.
-        with np.errstate(invalid="ignore", over="ignore"):
-            mixed = (1.0 - w) * pl + w * ph
-        out[p] = np.where(w <= 0.0, pl, np.where(w >= 1.0, ph, mixed))
-    return out
+    return _blended(low.values, high.values, T)
 
 
 def _check_inputs(b: np.ndarray, T: np.ndarray) -> None:
@@ -680,11 +732,8 @@ class MixingParameter:
         T = np.asarray(T, dtype=float)
         if len(self.sets) == 1:
             return np.broadcast_to(self.sets[0][3](T), T.shape).astype(float)
-        low, high = self.sets[0][3](T), self.sets[1][3](T)
-        w = _blend_weight(T)
-        with np.errstate(invalid="ignore", over="ignore"):
-            mixed = (1.0 - w) * low + w * high
-        return np.where(w <= 0.0, low, np.where(w >= 1.0, high, mixed))
+        return np.broadcast_to(_blended(self.sets[0][3], self.sets[1][3], T),
+                               T.shape).astype(float)
 
 
 def _mixing_key(kind: str, ions) -> tuple:
@@ -911,52 +960,107 @@ class PitzerMixture:
         Harvie, Møller & Weare (1984) Geochim. Cosmochim. Acta 48, 723.
         """
         m, T = self._check(m, T)
-        z = self.z
-        I = 0.5 * (m @ (z * z))
-        Z = m @ np.abs(z)
-        sI = np.sqrt(I)
-        Aphi = debye_huckel_Aphi(T)
-        S = -Aphi * I * sI / (1.0 + B_PITZER * sI)
-        for c, a, salt in self.pairs:
-            if salt is None:
-                continue
-            par = pitzer_parameters(salt, T)
-            Bphi = par["beta0"] + par["beta1"] * np.exp(-salt.alpha1 * sI)
-            if salt.alpha2 > 0:
-                Bphi = Bphi + par["beta2"] * np.exp(-salt.alpha2 * sI)
-            C = par["Cphi"] / (2.0 * np.sqrt(abs(z[c] * z[a])))
-            S = S + m[:, c] * m[:, a] * (Bphi + Z * C)
-        if self.like:
-            xJp: dict[float, np.ndarray] = {}
-            safe_I = np.where(I > 0.0, I, 1.0)
-
-            def xjp(zz):
-                if zz not in xJp:
-                    xJp[zz] = _xJp(6.0 * zz * Aphi * sI)
-                return xJp[zz]
-
-            for i, j, theta, psis in self.like:
-                zi, zj = float(z[i]), float(z[j])
-                mm = m[:, i] * m[:, j]
-                inner = theta(T) if theta is not None else np.zeros_like(I)
-                for k, psi in psis:
-                    inner = inner + m[:, k] * psi(T)
-                S = S + mm * inner
-                if zi != zj:
-                    # m_i m_j / I -> 0 as I -> 0; dividing before multiplying by z z/8 and
-                    # x J' keeps the product finite down to denormal molalities
-                    S = S + np.where(I > 0.0, mm / safe_I, 0.0) * (zi * zj / 8.0) * (
-                        xjp(zi * zj) - 0.5 * xjp(zi * zi) - 0.5 * xjp(zj * zj))
+        S = self._S(T, self._sums(m))
         total = m.sum(axis=1)
         with np.errstate(invalid="ignore", divide="ignore"):
             phi = np.where(total > 0.0, 1.0 + 2.0 * S / np.where(total > 0, total, 1.0), 1.0)
         return phi
+
+    def _sums(self, m: np.ndarray) -> tuple[np.ndarray, ...]:
+        """The factors of the osmotic sum S that depend on composition only, each (N,), in
+        the order :meth:`_S` reads them: I^(3/2)/(1 + b √I); for each pair with parameters
+        m_c m_a, m_c m_a e^(-α1 √I) (and e^(-α2 √I) where α2 > 0) and m_c m_a Z/(2 √|z_c z_a|);
+        √I if some like pair has unequal charges; for each like pair m_i m_j (with θ),
+        m_i m_j m_k (each ψ) and, for unequal charges, (m_i m_j / I) z_i z_j / 8."""
+        z = self.z
+        I = 0.5 * (m @ (z * z))
+        Z = m @ np.abs(z)
+        sI = np.sqrt(I)
+        out = [I * sI / (1.0 + B_PITZER * sI)]
+        for c, a, salt in self.pairs:
+            if salt is None:
+                continue
+            mm = m[:, c] * m[:, a]
+            out.append(mm)
+            out.append(mm * np.exp(-salt.alpha1 * sI))
+            if salt.alpha2 > 0:
+                out.append(mm * np.exp(-salt.alpha2 * sI))
+            out.append(mm * Z / (2.0 * np.sqrt(abs(z[c] * z[a]))))
+        if any(z[i] != z[j] for i, j, _t, _p in self.like):
+            out.append(sI)
+        safe_I = np.where(I > 0.0, I, 1.0)
+        for i, j, theta, psis in self.like:
+            mm = m[:, i] * m[:, j]
+            if theta is not None:
+                out.append(mm)
+            out.extend(mm * m[:, k] for k, _psi in psis)
+            if z[i] != z[j]:
+                # m_i m_j / I -> 0 as I -> 0; dividing before multiplying by z z/8 and
+                # x J' keeps the product finite down to denormal molalities
+                out.append(np.where(I > 0.0, mm / safe_I, 0.0) * (z[i] * z[j] / 8.0))
+        return tuple(out)
+
+    def _S(self, T, sums) -> np.ndarray:
+        """S(T) = -A_phi I^(3/2)/(1 + b √I) + Σ_c Σ_a m_c m_a (B^phi_ca + Z C_ca) + Σ_(i<j)
+        like m_i m_j (Φ^phi_ij + Σ_k m_k ψ_ijk) (see :meth:`osmotic_coefficient`), from the
+        composition sums of :meth:`_sums`: only the temperature functions are evaluated."""
+        z = self.z
+        it = iter(sums)
+        Aphi = debye_huckel_Aphi(T)
+        S = -Aphi * next(it)
+        for _c, _a, salt in self.pairs:
+            if salt is None:
+                continue
+            par = pitzer_parameters(salt, T)
+            S += par["beta0"] * next(it)
+            S += par["beta1"] * next(it)
+            if salt.alpha2 > 0:
+                S += par["beta2"] * next(it)
+            S += par["Cphi"] * next(it)
+        if any(z[i] != z[j] for i, j, _t, _p in self.like):
+            x_unit = 6.0 * Aphi * next(it)   # x_ij / (z_i z_j)
+            xJp: dict[float, np.ndarray] = {}
+
+            def xjp(zz):
+                if zz not in xJp:
+                    xJp[zz] = _xJp(zz * x_unit)
+                return xJp[zz]
+        for i, j, theta, psis in self.like:
+            if theta is not None:
+                S += theta(T) * next(it)
+            for _k, psi in psis:
+                S += psi(T) * next(it)
+            if z[i] != z[j]:
+                zi, zj = float(z[i]), float(z[j])
+                S += next(it) * (xjp(zi * zj) - 0.5 * xjp(zi * zi) - 0.5 * xjp(zj * zj))
+        return S
 
     def ln_water_activity(self, m, T) -> np.ndarray:
         """ln a_w = -M_w (Σ_i m_i) phi [-], shape (N,); arguments as
         :meth:`osmotic_coefficient`. M_w = 0.018015268 kg/mol."""
         m, T = self._check(m, T)
         return -M_WATER * m.sum(axis=1) * self.osmotic_coefficient(m, T)
+
+    def ln_water_activity_sums(self, m) -> tuple[np.ndarray, tuple[np.ndarray, ...]]:
+        """ln a_w split for many temperatures at fixed composition: ``(c, sums)`` with
+        ln a_w(m, T) = c + :meth:`ln_water_activity_at` ``(T, *sums)`` (to rounding), where
+        c = -M_w Σ_i m_i [-] and ``sums`` are composition-only arrays (N,); the same subset
+        of every array gives the same subset of compositions.
+
+        m : ion molalities [mol/kg], shape (N, n_ions).
+        """
+        m = np.asarray(m, dtype=float)
+        if m.ndim == 1:
+            m = m[None, :]
+        _check_inputs(m, np.ones(1))
+        return -M_WATER * m.sum(axis=1), self._sums(m)
+
+    def ln_water_activity_at(self, T, *sums) -> np.ndarray:
+        """The temperature-dependent part -2 M_w S(T) of ln a_w [-] from the sums of
+        :meth:`ln_water_activity_sums`; T [K], scalar or shaped like the sums."""
+        S = self._S(np.asarray(T, dtype=float), sums)
+        S *= -2.0 * M_WATER
+        return S
 
     def caveats(self, m, T) -> list[Caveat]:
         """The fixed notes, plus a caveat for each binary or mixing parameter used

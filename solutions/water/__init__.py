@@ -10,6 +10,7 @@ from solutions.water.iapws_ice import (
     enthalpy_of_vaporization_supercooled,
     ice_water_activity,
     ice_water_activity_thermo,
+    ln_ice_water_activity,
     sublimation_pressure,
     supercooled_vapor_pressure,
 )
@@ -27,6 +28,7 @@ __all__ = [
     "ice_water_activity",
     "ice_water_activity_thermo",
     "liquid_density",
+    "ln_ice_water_activity",
     "saturation_pressure",
     "saturation_temperature",
     "specific_volume_liquid",
