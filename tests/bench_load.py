@@ -1,7 +1,7 @@
 """Load benchmark of the dashboard through its own websocket protocol (a script, not a test).
 
     python tests/bench_load.py [--sessions 1 10 20] [--edits 5] [--timeout 60] [--warm]
-                               [--think SECONDS] [--workers K]
+                               [--think SECONDS] [--workers K] [--edit temperature|recipe]
 
 Starts ``streamlit run streamlit_app.py`` on a free loopback port (127.0.0.1 only), or
 with ``--workers K`` the team server ``python -m solutions serve --workers K`` (K page
@@ -9,10 +9,12 @@ servers behind one front, :mod:`solutions.ui.serve`), then
 for each N opens N browser-like sessions on ``/_stcore/stream``: each sends the first
 run request a browser sends, waits for the page, then makes ``--edits`` edits of the
 solution temperature (a different value per session and edit, so every edit is a cache
-miss that re-evaluates the recipe and rebuilds the charts; with ``--warm`` all sessions
+miss that re-evaluates the recipe and redraws the charts' marks; with ``--warm`` all sessions
 alternate between two shared values, so the updates are cache hits and measure the rerun
 itself; with ``--think`` each session pauses, as a person reading the page would, before
-each edit). The edit-to-update latency
+each edit; with ``--edit recipe`` each edit changes the first amount of the recipe table
+instead, as a typed cell does, so the evaluation and the chart data are all new). The
+edit-to-update latency
 is the time from sending the new widget value to the server's "script finished"
 message. Prints the median and 90th percentile per N and the resident memory of the
 server (with ``--workers``, of the front and its page servers together).
@@ -26,6 +28,7 @@ from __future__ import annotations
 
 import argparse
 import asyncio
+import json
 import os
 import random
 import statistics
@@ -84,7 +87,9 @@ class Session:
         self.timeout = timeout
         self.ws = None
         self.widget_id: str | None = None
+        self.editor_id: str | None = None
         self.shown: list[str] = []
+        self.metrics: list[str] = []
 
     async def open(self):
         import websockets
@@ -96,9 +101,10 @@ class Session:
         if self.ws is not None:
             await self.ws.close()
 
-    async def run(self, widget_value: float | None = None) -> float:
-        """Send a run request (with the temperature widget's new value, if given) and
-        wait for the script to finish; returns the seconds it took."""
+    async def run(self, widget_value: float | None = None, amount: str | None = None) -> float:
+        """Send a run request (with the temperature widget's new value, or the recipe
+        table's first amount edited, if given) and wait for the script to finish;
+        returns the seconds it took."""
         from streamlit.proto.BackMsg_pb2 import BackMsg
         from streamlit.proto.ForwardMsg_pb2 import ForwardMsg
         msg = BackMsg()
@@ -109,6 +115,11 @@ class Session:
             w = cs.widget_states.widgets.add()
             w.id = self.widget_id
             w.double_value = widget_value
+        if amount is not None:   # the table editor's state, as the browser sends it
+            w = cs.widget_states.widgets.add()
+            w.id = self.editor_id
+            w.string_value = json.dumps({"edited_rows": {"0": {"amount": amount}},
+                                         "added_rows": [], "deleted_rows": []})
         t0 = time.perf_counter()
         await self.ws.send(msg.SerializeToString())
         deadline = t0 + self.timeout
@@ -137,15 +148,23 @@ class Session:
             self.widget_id = el.number_input.id
         if el.WhichOneof("type") == "markdown" and " °C and " in el.markdown.body:
             self.shown.append(el.markdown.body)
+        if el.WhichOneof("type") == "dataframe" and el.dataframe.editing_mode and \
+                self.editor_id is None:
+            self.editor_id = el.dataframe.id
+        if el.WhichOneof("type") == "metric":
+            self.metrics.append(el.metric.body)
 
 
 async def drive(port: int, n: int, edits: int, timeout: float,
-                warm: bool = False, think: float = 0.0) -> tuple[list, list]:
+                warm: bool = False, think: float = 0.0,
+                what: str = "temperature") -> tuple[list, list]:
     sessions = [Session(port, timeout) for _ in range(n)]
     await asyncio.gather(*(s.open() for s in sessions))
     first = await asyncio.gather(*(s.run() for s in sessions))
     if any(s.widget_id is None for s in sessions):
         raise SystemExit("the temperature box was not found on the page")
+    if what == "recipe" and any(s.editor_id is None for s in sessions):
+        raise SystemExit("the recipe table was not found on the page")
     lat: list[float] = []
 
     async def editor(k: int, s: Session):
@@ -153,12 +172,19 @@ async def drive(port: int, n: int, edits: int, timeout: float,
         for e in range(edits):
             if think:   # a person reads the page before the next edit
                 await asyncio.sleep(rng.uniform(0.5, 1.5) * think)
-            T = (25.0 + e % 2 if warm else                    # shared values: cache hits
+            x = (25.0 + e % 2 if warm else                    # shared values: cache hits
                  round(20.0 + 0.37 * k + 1.13 * e + 0.01 * n, 2))  # new value: a miss
+            if what == "recipe":     # the first row's amount: 0.03 × x, in its own unit
+                before = list(s.metrics)
+                s.metrics.clear()
+                lat.append(await s.run(amount=f"{0.03 * x:.4g}"))
+                if not s.metrics or (e and not warm and s.metrics == before):
+                    raise SystemExit("the page did not update to the new amount")
+                continue
             s.shown.clear()
-            lat.append(await s.run(T))
-            if not any(f" at {T:g} °C and " in b for b in s.shown):
-                raise SystemExit(f"the page did not update to {T:g} °C")
+            lat.append(await s.run(x))
+            if not any(f" at {x:g} °C and " in b for b in s.shown):
+                raise SystemExit(f"the page did not update to {x:g} °C")
 
     await asyncio.gather(*(editor(k, s) for k, s in enumerate(sessions)))
     await asyncio.gather(*(s.close() for s in sessions))
@@ -178,6 +204,10 @@ def main(argv=None) -> int:
     ap.add_argument("--think", type=float, default=0.0,
                     help="mean seconds a session waits before each edit (0: edits back "
                          "to back, the worst case)")
+    ap.add_argument("--edit", choices=["temperature", "recipe"], default="temperature",
+                    help="what each edit changes: the solution temperature (default; the "
+                         "chart data are reused) or the first amount of the recipe table "
+                         "(everything is recomputed)")
     ap.add_argument("--workers", type=int, default=0,
                     help="run the team server with this many page servers (0: one plain "
                          "Streamlit server)")
@@ -197,7 +227,9 @@ def main(argv=None) -> int:
               + (f"{args.workers} page servers behind the front; " if args.workers else
                  "one Streamlit server; ") +
               f"think {args.think:g} s; "
-              f"{args.edits} edits per session of the solution temperature, "
+              f"{args.edits} edits per session of "
+              + ("the solution temperature, " if args.edit == "temperature" else
+                 "the recipe table's first amount, ")
               + ("alternating between two values shared by all sessions (cache hits)"
                  if args.warm else "each a new value (a cache miss)"))
         print(f"{'N':>3} {'first page med (s)':>19} {'edit med (s)':>13} "
@@ -206,7 +238,7 @@ def main(argv=None) -> int:
         for n in args.sessions:
             c0, w0 = time.process_time(), time.perf_counter()
             first, lat = asyncio.run(drive(port, n, args.edits, args.timeout, args.warm,
-                                           args.think))
+                                           args.think, args.edit))
             print(f"{n:>3} {statistics.median(first):>19.2f} {statistics.median(lat):>13.2f} "
                   f"{pct(lat, 0.9):>13.2f} {len(lat):>6} {tree_rss_mb(proc.pid):>16.0f} "
                   f"{time.process_time() - c0:>20.1f} {time.perf_counter() - w0:>9.1f}")
