@@ -90,3 +90,24 @@ def test_every_command_prints_its_help(capsys):
         out = capsys.readouterr().out
         if name == "target":
             assert all(p.flag in out for p in targets().values())
+
+
+@pytest.mark.parametrize("argv", [["evaluate", "recipes/saline_rinse.csv", "--json"],
+                                  ["evaluate", "recipes/chiller_coolant.csv"],
+                                  ["evaluate", "recipes/maple_glaze_syrup.csv", "-T", "60"],
+                                  ["ingredients"]])
+def test_light_commands_do_not_import_the_heavy_stack(argv):
+    """The command line stays quick because these commands never import the data-frame,
+    SciPy or page libraries (their import alone costs tenths of a second; see
+    tests/bench_cli.py for the times). Read from ``python -X importtime``."""
+    import subprocess
+    import sys
+    from pathlib import Path
+    root = Path(__file__).resolve().parents[1]
+    r = subprocess.run([sys.executable, "-X", "importtime", "-m", "solutions", *argv],
+                       cwd=root, capture_output=True, text=True, timeout=120)
+    assert r.returncode == 0, r.stderr[-2000:]
+    loaded = {line.split("|")[-1].strip().split(".")[0]
+              for line in r.stderr.splitlines() if line.startswith("import time:")}
+    assert not loaded & {"pandas", "scipy", "streamlit", "altair", "pyarrow"}, \
+        sorted(loaded & {"pandas", "scipy", "streamlit", "altair", "pyarrow"})

@@ -25,8 +25,8 @@ from functools import cache
 from importlib import resources
 
 import numpy as np
-import pandas as pd
 
+from .._csvtable import read_rows
 from ..errors import Caveat, SolutionsError
 from ..ingredients import M_WATER
 from .nrtl import ln_gamma
@@ -109,12 +109,12 @@ def load_nrtl_water() -> dict[str, NrtlPair]:
     'freezing'
     """
     path = resources.files("solutions.data") / "nrtl_water.csv"
-    df = pd.read_csv(str(path))
-    missing = [c for c in _REQUIRED if c not in df.columns]
+    rows = read_rows(path, as_text=("solute", "data", "source"))
+    missing = [c for c in _REQUIRED if rows and c not in rows[0]]
     if missing:
         raise NrtlDataError(1, missing[0], "column missing from the header")
     out = {}
-    for i, r in enumerate(df.to_dict("records"), start=2):
+    for i, r in enumerate(rows, start=2):
         alpha = _float(r, "alpha", i)
         # negative non-randomness parameters are used for some aqueous systems (the fitted
         # urea and citric acid rows); the model's bounds are checked by the property tests
