@@ -111,7 +111,7 @@ def test_pages_through_the_front_follow_their_edits(front):
         first, lat = await bench_load.drive(port, 2, 2, 120)
         return first, lat
 
-    first, lat = asyncio.run(two_sessions())   # drive() checks each page shows its edit
+    first, lat = _in_thread(two_sessions())   # drive() checks each page shows its edit
     assert len(first) == 2 and len(lat) == 4
 
 
@@ -136,3 +136,43 @@ def test_browser_through_the_front_downloads_the_csv(front, chromium_browser, tm
         assert not page.locator("[data-testid=stException]").count()
     finally:
         ctx.close()
+
+
+def test_a_page_server_that_stops_is_started_again(front):
+    """Both page servers killed: the front starts them again on their ports and pages
+    through it work once more."""
+    import signal
+    port, url = front
+    serve_pid = next(p for p in _children(os.getpid())
+                     if f"--port {port}" in Path(f"/proc/{p}/cmdline").read_text()
+                     .replace("\0", " "))
+    workers = _children(serve_pid)
+    assert len(workers) == 2
+    for p in workers:
+        os.kill(p, signal.SIGKILL)
+    deadline = time.monotonic() + 120
+    while True:
+        try:
+            with urllib.request.urlopen(url + "/_stcore/health", timeout=2) as r:
+                if r.status == 200 and len(_children(serve_pid)) == 2:
+                    break
+        except OSError:
+            pass
+        assert time.monotonic() < deadline, "the page servers were not started again"
+        time.sleep(0.5)
+    assert set(_children(serve_pid)).isdisjoint(workers)
+    first, lat = _in_thread(bench_load.drive(port, 2, 1, 120))
+    assert len(lat) == 2
+
+
+def _in_thread(coro):
+    """Run ``coro`` on its own event loop in another thread (the browser tests' driver
+    keeps a loop running in this one)."""
+    from concurrent.futures import ThreadPoolExecutor
+    with ThreadPoolExecutor(1) as pool:
+        return pool.submit(asyncio.run, coro).result()
+
+
+def _children(pid: int) -> list[int]:
+    return [int(c) for t in Path(f"/proc/{pid}/task").glob("*/children")
+            for c in t.read_text().split()]

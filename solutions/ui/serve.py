@@ -12,7 +12,9 @@ given address that passes each browser to one of them:
   its downloads live in one server process);
 * a browser without the cookie goes to the server with the fewest open pages;
 * a request is passed on as it came (``Connection: close`` towards the server, so one
-  connection carries one request); a websocket is joined end to end.
+  connection carries one request); a websocket is joined end to end;
+* a page server that stops is started again on its port (its pages reconnect); each
+  server's output goes to a log file named at start.
 
 Nothing of the page is changed; the front reads request and response heads only. It is
 plain asyncio on loopback ports, without new packages. Stop it with Ctrl-C: the servers
@@ -27,6 +29,7 @@ import signal
 import socket
 import subprocess
 import sys
+import tempfile
 import time
 import urllib.request
 from dataclasses import dataclass, field
@@ -48,6 +51,7 @@ class Worker:
     port: int
     proc: subprocess.Popen | None = None
     open_pages: int = 0
+    log: Path | None = None
 
 
 @dataclass
@@ -190,12 +194,18 @@ def free_port() -> int:
         return s.getsockname()[1]
 
 
-def start_worker(port: int, app: Path = APP) -> subprocess.Popen:
+def start_worker(port: int, app: Path = APP, log: Path | None = None) -> subprocess.Popen:
+    """``streamlit run`` of ``app`` on loopback ``port``; its output goes to ``log``
+    (appended) or nowhere."""
     cmd = [sys.executable, "-m", "streamlit", "run", str(app), "--server.port", str(port),
            "--server.address", "127.0.0.1", "--server.headless", "true",
            "--browser.gatherUsageStats", "false"]
-    return subprocess.Popen(cmd, cwd=app.parent, stdout=subprocess.DEVNULL,
-                            stderr=subprocess.DEVNULL)
+    out = open(log, "ab") if log is not None else subprocess.DEVNULL
+    try:
+        return subprocess.Popen(cmd, cwd=app.parent, stdout=out, stderr=subprocess.STDOUT)
+    finally:
+        if log is not None:
+            out.close()
 
 
 def wait_healthy(port: int, timeout: float = 90.0) -> bool:
@@ -231,23 +241,37 @@ def serve(workers: int = 2, port: int = 8501, address: str = "127.0.0.1",
         print(f"error: the page script {APP} is not there (run from a clone of the "
               "project)", file=sys.stderr)
         return 2
+    logs = Path(tempfile.mkdtemp(prefix="workbench-logs-"))
     pool = [Worker(free_port()) for _ in range(workers)]
-    for w in pool:
-        w.proc = start_worker(w.port)
+    for i, w in enumerate(pool):
+        w.log = logs / f"page-server-{i}.log"
+        w.proc = start_worker(w.port, log=w.log)
     try:
         for w in pool:
             if not wait_healthy(w.port):
-                print(f"error: the page server on port {w.port} did not start",
+                print(f"error: the page server on port {w.port} did not start (see {w.log})",
                       file=sys.stderr)
                 return 1
-        return asyncio.run(_main(Front(pool), port, address, ready))
+        return asyncio.run(_main(Front(pool), port, address, ready, logs))
     except KeyboardInterrupt:
         return 0
     finally:
         stop(pool)
 
 
-async def _main(front: Front, port: int, address: str, ready) -> int:
+async def _watch(front: Front, every: float = 5.0) -> None:
+    """Start again, on its own port, a page server that has stopped (its pages reconnect
+    and start afresh; the others are not touched)."""
+    while True:
+        await asyncio.sleep(every)
+        for w in front.workers:
+            if w.proc is not None and w.proc.poll() is not None:
+                print(f"page server on port {w.port} stopped (exit {w.proc.returncode}); "
+                      f"starting it again (log: {w.log})", file=sys.stderr, flush=True)
+                w.proc = start_worker(w.port, log=w.log)
+
+
+async def _main(front: Front, port: int, address: str, ready, logs: Path | None = None) -> int:
     try:
         server = await asyncio.start_server(front.handle, address, port, limit=MAX_HEAD)
     except OSError as exc:
@@ -261,11 +285,14 @@ async def _main(front: Front, port: int, address: str, ready) -> int:
         except (NotImplementedError, RuntimeError):  # pragma: no cover - not on Linux
             pass
     print(f"Solution workbench: http://{'localhost' if address == '127.0.0.1' else address}"
-          f":{port}  ({len(front.workers)} page servers; Ctrl-C stops)", flush=True)
+          f":{port}  ({len(front.workers)} page servers; Ctrl-C stops; their logs in "
+          f"{logs})", flush=True)
     if ready is not None:
         ready(port)
+    watch = asyncio.create_task(_watch(front))
     async with server:
         await stopping.wait()
+    watch.cancel()
     return 0
 
 
