@@ -243,8 +243,11 @@ def freezing_point(comp: Composition, model: str = "nonideal", terms: ActivityTe
     bad = ~np.isfinite(dT) & ~far
     if np.any(bad):
         caveats.append(Caveat("model-range",
-                              f"the model finds no freezing point above {lo - 273.15:.0f} °C "
-                              "(outside the range its data cover); not reported", None))
+                              "no freezing point is reported: the model finds no ice "
+                              f"equilibrium between {lo - 273.15:.0f} °C and 0 °C for this "
+                              "composition, which lies outside the range its data cover (not "
+                              "a sign that the solution would not freeze)", None,
+                              about="freezing"))
     Tf = np.subtract(T_MELT, dT, out=Tf)
     if np.any(np.isfinite(dT)):
         Tf[bad] = T_MELT    # range notes at the melting point where no root was found
@@ -439,6 +442,24 @@ def _volatile_names(comp: Composition, terms: ActivityTerms) -> list[str]:
     return [lab for lab, cols in groups if comp.solutes[cols[0]].solute in vk]
 
 
+def _volatile_reading(names, partial, p_pure, with_boiling: bool) -> Caveat:
+    """How to read the vapor figures of a solution whose solutes are volatile too."""
+    solutes = " and ".join(names[1:])
+    if len(p_pure) == 1:
+        parts = " + ".join(f"{n.lower()} {float(v[0]) / 1e3:.4g} kPa"
+                           for n, v in partial.items())
+        total = f" ({parts})"
+    else:
+        total = ""
+    text = (f"{solutes} evaporate{'s' if len(names) == 2 else ''} with the water: the vapor "
+            f"pressure is the total over the solution{total}, which can exceed pure water's; "
+            "the vapor-pressure lowering is of water's own partial pressure (Raoult)")
+    if with_boiling:
+        text += ("; the boiling point is the mixture's bubble point, which lies below pure "
+                 "water's when the volatile part is large enough (a negative elevation)")
+    return Caveat("volatile-solute", text, None, about="vapor")
+
+
 def _bracketed_root(f, lo, hi, bs, N):
     """Vectorized root of f(T, *bs) in [lo, hi] (:func:`solutions.roots.bracketed_root`)."""
     return roots.bracketed_root(f, lo, hi, bs, N, xatol=1e-9, xrtol=1e-13)
@@ -508,6 +529,7 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
         p_liq = p_liq + organic
         partial = {n: vap.partial_pressures[:, i] for i, n in enumerate(vap.names)}
         partial[vap.names[0]] = p_stable - organic
+        caveats.append(_volatile_reading(vap.names, partial, p_pure, with_boiling))
         flash, cav = flash_point(comp, model, terms)
         caveats.extend(_tag(c, "vapor") for c in cav)
     Tb, dTb = nan, nan

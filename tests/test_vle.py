@@ -138,6 +138,31 @@ def test_evaluation_keys():
     assert 20 < sol["flash_point_C"] < 35
 
 
+def test_volatile_mixture_says_how_to_read_its_vapor_figures():
+    """70 % w/w ethanol: the total vapor pressure exceeds pure water's 3.17 kPa at 25 °C
+    (IAPWS-IF97) while the 'lowering' is of water's own partial pressure, and the boiling
+    point is the bubble point, below water's: one warning says so, with the partial
+    pressures the JSON gives."""
+    from solutions.evaluate import evaluate
+    from solutions.recipe import read_recipe
+    d = evaluate(read_recipe("ingredient,amount,unit\nethanol,70,% w/w\nwater,balance,\n"),
+                 T=298.15).to_dict()
+    s = d["solution"]
+    assert s["vapor_pressure_kPa"] > s["vapor_pressure_pure_kPa"] == pytest.approx(3.1697,
+                                                                                  abs=1e-3)
+    assert s["vapor_pressure_lowering_kPa"] == pytest.approx(
+        s["vapor_pressure_pure_kPa"] - s["partial_pressures_kPa"]["Water"], rel=1e-9)
+    assert s["boiling_point_C"] < 99.97
+    note = next(w for w in d["warnings_detail"] if w["kind"] == "volatile-solute")
+    assert note["about"] == "vapor" and "bubble point" in note["message"]
+    for name, p in s["partial_pressures_kPa"].items():
+        assert f"{name.lower()} {p:.4g} kPa" in note["message"]
+    # a salt solution has no such warning
+    d2 = evaluate(read_recipe("ingredient,amount,unit\nsodium chloride,5,% w/w\n"
+                              "water,balance,\n")).to_dict()
+    assert not [w for w in d2["warnings_detail"] if w["kind"] == "volatile-solute"]
+
+
 def test_no_vapor_numbers_from_freezing_only_fits():
     """Isopropanol's pair is fitted to CRC freezing points only: they fix the water's
     activity, not isopropanol's, so its partial pressure, the bubble point and the flash
