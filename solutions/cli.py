@@ -596,6 +596,11 @@ COMMANDS = {"evaluate": cmd_evaluate, "target": cmd_target, "scale": cmd_scale,
 
 def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
+    if not os.environ.get("SOLUTIONS_DEBUG"):
+        # numpy's notes on a division by zero or an overflow inside the library are not for
+        # the user: every such value is withheld or refused with its reason
+        import warnings
+        warnings.filterwarnings("ignore", category=RuntimeWarning, module=r"solutions(\.|$)")
     try:
         return COMMANDS[args.command](args)
     except TargetError as exc:

@@ -551,11 +551,21 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
     rho = rho_measured if rho_measured is not None else rho_w
     caveats: tuple[Caveat, ...] = ()
     x = None
+    denser = False
     for it in range(1, max_iter + 1):
         x = _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute,
                           batch_mass, batch)
         if x[2] < 0:  # not enough room for the solvent: report it below, not a density
             break
+        if not x[0] > 0 or np.any(x[3] < 0):
+            # the rows per volume ask for more solute per litre than the solution weighs at
+            # this density: start once from a density that could hold them (a dense brine
+            # can), else say why there is no solution
+            need = _per_volume_need(rows)
+            if rho_measured is None and not denser and rho < need * 1.1 < 3000.0:
+                rho, denser = need * 1.1, True
+                continue
+            _too_much_per_volume(rows, need)
         comp = _composition(rows, solvent, M, h, x)
         if rho_measured is not None:
             break
@@ -579,6 +589,31 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
     elif batch is not None and batch[0] == "volume":
         res = _scale_to(res, batch)
     return res
+
+
+_PER_LITRE = {Basis.MASS_PER_VOLUME: lambda r: r.value_si,
+              Basis.MOLARITY: lambda r: r.value_si * r.ingredient.M,
+              Basis.VOLUME_FRACTION: lambda r: r.value_si * (r.ingredient.rho_pure or 0.0)}
+
+
+def _per_volume_need(rows) -> float:
+    """Solute mass the rows given per volume of solution ask for [kg/m³]."""
+    return sum(_PER_LITRE[r.amount.basis](r) for r in rows if r.amount.basis in _PER_LITRE)
+
+
+def _too_much_per_volume(rows, need: float):
+    """Raise the reason a recipe has no solution: its rows given per volume of solution ask
+    for more mass per litre than a solution of it weighs."""
+    per_volume = [r for r in rows if r.amount.basis in _PER_LITRE]
+    if not per_volume:
+        raise RecipeError("these amounts give no solution (a negative total mass); check "
+                          "the amounts and units")
+    first = max(per_volume, key=lambda r: _PER_LITRE[r.amount.basis](r))
+    raise RecipeError(f"the rows given per volume of solution ask for {need / 1e3:.3g} g of "
+                      "solute per mL of solution, more than such a solution weighs in all "
+                      "(water-based solutions weigh about 1 to 2 g per mL); check the amount "
+                      "and its unit (% w/v is grams per 100 mL of solution)",
+                      first.row, "amount", first.text)
 
 
 def _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute, batch_mass, batch):

@@ -70,6 +70,9 @@ RECIPES = [
      ["row 3", "unobtainium"]),
     ("ingredient,amount,unit\nsodium chloride #2,1,g\nwater,100,g\n", 2, ["sodium chloride #2"]),
     ("ingredient,amount,unit\n\x1b[31msodium chloride,1,g\nwater,100,g\n", 2, ["row 1"]),
+    # 252 g per 100 mL is more than any such solution weighs (a typed 25.2, or % w/w meant)
+    ("ingredient,amount,unit\nsodium chloride,252,% w/v\nwater,100,g\n", 2,
+     ["row 1", "amount", "2.52 g of solute per mL", "grams per 100 mL"]),
 ]
 
 

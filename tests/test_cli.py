@@ -111,3 +111,20 @@ def test_light_commands_do_not_import_the_heavy_stack(argv):
               for line in r.stderr.splitlines() if line.startswith("import time:")}
     assert not loaded & {"pandas", "scipy", "streamlit", "altair", "pyarrow"}, \
         sorted(loaded & {"pandas", "scipy", "streamlit", "altair", "pyarrow"})
+
+
+def test_no_numpy_notes_reach_the_user(tmp_path):
+    """A recipe far past solubility (2343 g of KCl in 100 g of water; 35.5 g dissolve at
+    25 °C, the library's solubility table) is answered with its warnings and withheld
+    values, without numpy's division and overflow notes on stderr."""
+    import subprocess
+    import sys
+    from pathlib import Path
+    path = tmp_path / "kcl.csv"
+    path.write_text("ingredient,amount,unit\npotassium chloride,2343,g\nwater,100,g\n")
+    r = subprocess.run([sys.executable, "-m", "solutions", "evaluate", str(path)],
+                       cwd=Path(__file__).resolve().parents[1], capture_output=True,
+                       text=True, timeout=120)
+    assert r.returncode == 0, r.stderr
+    assert "exceeds its solubility" in r.stdout
+    assert "Warning" not in r.stderr and r.stderr == "", r.stderr
