@@ -555,17 +555,21 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
     for it in range(1, max_iter + 1):
         x = _linear_solve(rows, solvent_row, solvent, M, h, rho, rho_w, has_absolute,
                           batch_mass, batch)
-        if x[2] < 0:  # not enough room for the solvent: report it below, not a density
-            break
+        # Too little room at this density (the solvent would be negative, or rows per
+        # volume ask for more than the solution weighs): a dense syrup or brine holds more
+        # per litre than water does, so start once from a density that could hold the
+        # solutes; if that fails too, the recipe has no solution and says why
         if not x[0] > 0 or np.any(x[3] < 0):
-            # the rows per volume ask for more solute per litre than the solution weighs at
-            # this density: start once from a density that could hold them (a dense brine
-            # can), else say why there is no solution
             need = _per_volume_need(rows)
             if rho_measured is None and not denser and rho < need * 1.1 < 3000.0:
                 rho, denser = need * 1.1, True
                 continue
             _too_much_per_volume(rows, need)
+        if x[2] < 0:
+            if rho_measured is None and not denser and x[0] > 0:
+                rho, denser = min(rho * (x[0] - x[2]) / x[0] * 1.05, 3000.0), True
+                continue
+            break   # not enough room for the solvent: reported below
         comp = _composition(rows, solvent, M, h, x)
         if rho_measured is not None:
             break

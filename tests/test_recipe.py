@@ -188,3 +188,20 @@ def test_round_trip_between_bases(items, basis):
     back = resolve(R("".join(f"{n},{v:.17g},{basis}\n" for (n, _), v in zip(items, vals)) + tail),
                    batch=("mass", res.m_total))
     np.testing.assert_allclose(back.pure_kg, res.pure_kg, rtol=1e-9)
+
+
+def test_dense_syrup_by_volume_is_resolved_not_refused():
+    """100 g of sucrose per 100 mL of solution is a heavy syrup, denser than water: the
+    CRC Handbook's 20 °C sucrose table (solutions/data/tables) gives 0.943 g/mL of sucrose
+    at 70 % w/w (1.3472 g/mL) and 1.129 g/mL at 80 % w/w (1.4117 g/mL), so 1.000 g/mL lies
+    at 73.1 % w/w by linear interpolation. Resolving at water's density first would find
+    no room for the water and refuse it."""
+    res = resolve(read_recipe("ingredient,amount,unit\nsucrose,100,% w/v\n"
+                              "water,q.s. to 100,mL\n"))
+    w = float(res.composition.mass_fraction()[0, 0])
+    assert w == pytest.approx(0.7306, abs=0.002)
+    assert res.rho_prep / 1e3 == pytest.approx(1.3472 + (1.4117 - 1.3472) * 0.306, rel=3e-3)
+    # past pure sucrose's own density (about 1.59 g/mL, from memory) no solution holds it
+    with pytest.raises(RecipeError, match="q.s. to 100 mL is too little"):
+        resolve(read_recipe("ingredient,amount,unit\nsucrose,170,% w/v\n"
+                            "water,q.s. to 100,mL\n"))

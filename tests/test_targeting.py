@@ -382,14 +382,15 @@ def test_unreachable_wrong_way(tmp_path, capsys):
     assert _nearest(err) == pytest.approx(float(plain.props.osmolality[0]) * 1e3, rel=1e-5)
 
 
-def test_unreachable_qs_volume_full(tmp_path, capsys):
-    """Glycerol cannot raise a q.s. solution's density past pure glycerol's: at 1.30 g/mL the
-    q.s. volume is full before the target (exit 3, nearest < 1.30 g/mL)."""
+def test_unreachable_past_the_pure_liquid_in_a_qs_volume(tmp_path, capsys):
+    """Glycerol cannot raise a q.s. solution's density past pure glycerol's (1.2613 g/mL at
+    20 °C, CRC, from memory): the search runs up to practically pure glycerol, over 100 g
+    per 100 mL, and stops short of 1.30 g/mL (exit 3, nearest between 1.24 and 1.2613)."""
     code, _, err = _run(tmp_path, capsys, "ingredient,amount,unit\nglycerol,10,% w/v\n"
                         "water,q.s. to 100,mL", "--vary", "glycerol", "--target-density", "1.30")
     assert code == 3
-    assert "q.s. volume is already full" in err
-    assert 1.2 < _nearest(err) < 1.30
+    assert "practically the pure ingredient" in err
+    assert 1.24 < _nearest(err) < 1.2613
 
 
 def test_unreachable_balance_over_100_percent(tmp_path, capsys):
