@@ -232,9 +232,9 @@ def warning_links(d: dict) -> dict[str, list[int]]:
     links: dict[str, list[int]] = {k: [] for k, _, _ in PROPERTY_LABELS}
     groups = about_groups()
     for i, w in enumerate(d.get("warnings_detail") or [], start=1):
-        keys = groups.get(w.get("about", ""), ())
-        if w.get("kind") == "volatile-solute":
-            keys = groups["boiling"]
+        keys = tuple(groups.get(w.get("about", ""), ()))
+        if w.get("kind") == "volatile-solute":   # a volatile solute bears on boiling too
+            keys = tuple(dict.fromkeys(tuple(groups["boiling"]) + keys))
         for k in keys:
             links[k].append(i)
     return links
