@@ -326,3 +326,20 @@ def test_beyond_correlation_range_is_continuous_and_flagged():
     hot = _rho("ethanol", 0.999999, 353.15)
     assert any(c.kind == "model-range" for c in hot.caveats)
     assert hot.rho[0] == pytest.approx(float(pure_liquid_density(353.15, "ethanol")), rel=5e-3)
+
+
+def test_sucrose_syrups_past_the_density_data_are_flagged_and_close():
+    """Laliberté's sucrose coefficients reach 50.7 % w/w; syrups go further. Against the
+    CRC Handbook 20 °C sucrose table (60–84 % w/w) the extrapolated density stays within
+    0.6 % (0.05 % at 60 %, 0.42 % at 80 %), and every such result carries the
+    'extrapolated' warning (so a syrup maker knows to measure)."""
+    d = CRC[(CRC.solute == "Sucrose") & (CRC.mass_pct >= 60)]
+    assert len(d) >= 4
+    w = d.mass_pct.to_numpy()[:, None] / 100
+    comp = Composition.from_mass_fractions((LIB.get("sucrose"),), w, LIB.get("water"))
+    r = solution_density(comp, 293.15)
+    err = r.rho / (d.density_g_per_cm3.to_numpy() * 1e3) - 1.0
+    assert np.all(np.abs(err) < 0.006), err
+    assert abs(err[0]) < 0.001                      # 60 %: still close
+    assert any("reach 50.7 % w/w" in c.message and "extrapolated" in c.message
+               for c in r.caveats)
