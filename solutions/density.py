@@ -25,6 +25,11 @@ IAPWS-IF97. Per solute, ``solutions/data/density_apparent.csv`` names one form:
     Glycerol: Volk & Kähler (2018), 0–100 %, fitted 15–30 °C, used 0–40 °C (agrees with
     Melinder's glycerol data within 0.1 % there, tests/test_density.py).
     Coefficients: ``solutions/data/density_correlations.csv``.
+``crc_laliberte``
+    sucrose: the CRC 20 °C table fitted as for ``vapp_poly`` (c0..c3, to 84 %) sets the
+    20 °C values, Laliberté's (2009) coefficients (``density_correlations.csv``, 15–55 °C,
+    to 50.7 %) only their change with T, held at its 50.7 % value above that (flagged
+    away from 20 °C).
 ``vapp_poly``
     1/rho_app = c0 + c1 w_s + c2 w_s² + c3 w_s³ (+ c4 w_s⁴)   [m³/kg]; fitted by
     tools/fit_density.py to the CRC Handbook 20 °C tables. Away from 20 °C a liquid solute with a pure-liquid
@@ -104,9 +109,26 @@ def apparent_density(row: dict, w_s, T):
             Tc = np.clip(T, lo, hi)
             v = v + 1.0 / pure_liquid_density(Tc, key) - 1.0 / pure_liquid_density(T20, key)
         return 1.0 / (v + 0.0 * t)
+    if form == "crc_laliberte":
+        return 1.0 / _v_app_crc_laliberte(row, w_s, T)
     if form in _BINARY:
         return 1.0 / _binary_apparent_volume(row, w_s, T)
     raise ValueError(f"unknown density form {form!r} for {row['solute']!r}")
+
+
+def _v_app_crc_laliberte(row: dict, w_s, T):
+    """Apparent specific volume [m³/kg]: the CRC 20 °C polynomial (c0..c3 of the row) plus
+    the change with temperature of Laliberté's (2009) apparent volume at the same
+    composition, taken at Laliberté's highest composition above it."""
+    c0, c1, c2, c3 = (float(row[k]) for k in ("c0", "c1", "c2", "c3"))
+    v20 = c0 + w_s * (c1 + w_s * (c2 + w_s * c3))
+    c = _correlations()["laliberte_" + row["solute"].replace(" ", "_")]
+    k = tuple(c[("c", i, 0)] for i in range(5))
+    wc = np.minimum(w_s, c[("w_max", 0, 0)])
+
+    def v_lal(t):
+        return (wc + k[2] + k[3] * t) / ((k[0] * wc + k[1]) * np.exp(1e-6 * (t + k[4]) ** 2))
+    return v20 + v_lal(np.asarray(T, dtype=float) - 273.15) - v_lal(T20 - 273.15)
 
 
 def _coef_or_zero(value) -> float:
@@ -440,6 +462,15 @@ def _range_caveats(name: str, row: dict, w_s, T) -> list[Caveat]:
                           f"result at {_fmt_range(t)} °C is extrapolated", name,
                           {"T_min_C": tmin, "T_max_C": tmax}))
     ws = np.atleast_1d(w_s)
+    if row["form"] == "crc_laliberte":
+        w_lal = _correlations()["laliberte_" + row["solute"].replace(" ", "_")][("w_max", 0, 0)]
+        if np.any(ws > w_lal * 1.001) and np.any(np.abs(t - 20.0) > 5.0):
+            out.append(Caveat("model-range",
+                              f"density of {name} above {w_lal * 100:.3g} % w/w at "
+                              f"{_fmt_range(t)} °C: the 20 °C table reaches "
+                              f"{wmax * 100:.3g} %, its change with temperature is known to "
+                              f"{w_lal * 100:.3g} % and held there (an estimate)", name,
+                              {"w_max_T": w_lal}))
     if np.any(ws > wmax * 1.001):
         if row["form"] == "melinder":
             out.append(Caveat("model-range",

@@ -56,7 +56,14 @@ FITS = {
     "Sodium citrate dihydrate": "trisodium citrate",
     # the Laliberté (2009) set for this salt deviates 0.4 % from the CRC table at 20 °C
     "Potassium carbonate": "K2CO3",
+    # Laliberté's sucrose set reaches 50.7 %; syrups go to the table's 84 %. The CRC fit sets
+    # the 20 °C values and Laliberté's set only their change with temperature (form
+    # crc_laliberte, its coefficients in density_correlations.csv)
+    "Sucrose": "sucrose",
 }
+#: solutes whose row takes a form that shifts the CRC 20 °C fit with temperature:
+#: (form, T_min_K, T_max_K of the shifting correlation)
+SHIFTED = {"sucrose": ("crc_laliberte", 288.15, 328.15)}
 DEGREE = 3
 # Quartic where a cubic misses the table by more than 0.2 %: the CRC 2-propanol table has
 # 15 rows up to 20 % and then only 40, 60, 80 and 100 % (cubic: 0.25 %, quartic: 0.16 %).
@@ -66,7 +73,11 @@ DEGREES = {"2-propanol": 4}
 T_SHIFT_SOURCE = {"melinder": (
     " (20 °C values, to 60 %); change with temperature: Melinder, A. (2010) Properties of "
     "Secondary Working Fluids for Indirect Systems, IIR/IIF, density polynomial "
-    "(solutions/data/density_correlations.csv), 0-100 degC")}
+    "(solutions/data/density_correlations.csv), 0-100 degC"),
+    "crc_laliberte": (
+    " (20 °C values, to 84 %); change with temperature: Laliberté M. (2009) J. Chem. Eng. "
+    "Data 54, 1725, sucrose coefficients (solutions/data/density_correlations.csv), 15-55 "
+    "degC, held at its 50.66 % value above that")}
 SOURCE = ("fitted by tools/fit_density.py (polynomial apparent specific volume) to CRC Handbook "
           "102nd ed. (2021) Concentrative Properties of Aqueous Solutions, 20 °C")
 
@@ -109,21 +120,25 @@ def main() -> None:
         hold = holdout_error(w, rho, rho_w, degree)
         print(f"{key:20s} n={len(w):3d} w<={w.max():.2f} max density error {err * 100:.3f} % "
               f"(hold-out {hold * 100:.3f} %)")
-        rows.append(dict(solute=key, form="vapp_poly", c0=repr(float(coef[0])), c1=repr(float(coef[1])),
+        form, T_min, T_max = SHIFTED.get(key, ("vapp_poly", 288.15, 298.15))
+        rows.append(dict(solute=key, form=form, c0=repr(float(coef[0])), c1=repr(float(coef[1])),
                          c2=repr(float(coef[2])), c3=repr(float(coef[3])),
-                         c4=repr(float(coef[4])) if len(coef) > 4 else "", T_min_K=288.15,
-                         T_max_K=298.15, w_max=round(float(w.max()), 4), source=SOURCE))
+                         c4=repr(float(coef[4])) if len(coef) > 4 else "", T_min_K=T_min,
+                         T_max_K=T_max, w_max=round(float(w.max()), 4),
+                         source=SOURCE + T_SHIFT_SOURCE.get(form, "")))
     old = pd.read_csv(OUT)
     new = pd.DataFrame(rows)
     # rows of another form (published T-dependent correlation) keep their form and range
     # and take only the 20 °C coefficients
-    keep_form = old[(old.form != "vapp_poly") & old.solute.isin(new.solute)]
+    keep_form = old[(old.form != "vapp_poly") & old.solute.isin(new.solute)
+                    & ~old.solute.isin(list(SHIFTED))]
     for _, r in keep_form.iterrows():
         i = new.index[new.solute == r.solute][0]
         for col in ("form", "T_min_K", "T_max_K", "w_max"):
             new.loc[i, col] = r[col]
         new.loc[i, "source"] = SOURCE + T_SHIFT_SOURCE.get(r.form, "")
     old = old[(old.form != "vapp_poly") & ~old.solute.isin(new.solute)]
+    new = new.astype(object).where(new.notna(), "")
     pd.concat([old, new]).to_csv(OUT, index=False)
 
 
