@@ -42,7 +42,8 @@ from . import roots
 from .activity.models import ActivityTerms, activity_terms, check_model, describe_model
 from .composition import Composition
 from .constants import P_ATM, P_CRIT, P_TRIPLE, R, T_CRIT, T_MELT, T_TRIPLE
-from .errors import Caveat, DataError, OutOfRangeError, group_temperature_ranges, merge_caveats
+from .errors import (Caveat, DataError, OutOfRangeError, group_outside_temperatures,
+                     group_temperature_ranges, merge_caveats)
 from .water import (ice_water_activity_thermo, ln_ice_water_activity, saturation_pressure,
                     saturation_temperature, sublimation_pressure,
                     supercooled_vapor_pressure, water_density)
@@ -582,4 +583,5 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
     osmolarity = comp.particle_molarity(rho) if rho is not None else None
     return ColligativeResult(model, describe_model(model), T, P, a, p_stable, p_liq, p_pure,
                              Tf, dTf, Tb, dTb, osmolality, phi, Pi, osmolarity, below,
-                             merge_caveats(group_temperature_ranges(caveats)), partial, flash)
+                             merge_caveats(group_outside_temperatures(group_temperature_ranges(caveats))),
+                             partial, flash)

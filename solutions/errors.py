@@ -162,6 +162,32 @@ _AT = {"boiling": "the boiling point", "freezing": "the freezing point",
        "activity": "the solution's temperature", "vapor": "the solution's temperature"}
 
 
+def group_outside_temperatures(caveats) -> list[Caveat]:
+    """One caveat per component whose data are used outside their temperature span at
+    several temperatures (the solution's, its freezing point, its boiling point) instead
+    of one per temperature. Such caveats carry ``extra["head"]`` (what the data span) and
+    ``extra["outside_K"]`` (the temperature used)."""
+    out, groups = [], {}
+    for c in caveats:
+        x = c.extra or {}
+        if c.kind == "model-range" and "outside_K" in x and "head" in x:
+            groups.setdefault((c.component, x["head"]), []).append(c)
+        else:
+            out.append(c)
+    for (component, head), cs in groups.items():
+        if len(cs) == 1:
+            out.append(cs[0])
+            continue
+        used = [f"{float(c.extra['outside_K']) - 273.15:.4g} °C "
+                f"({_AT.get(c.about, 'the temperature used')})" for c in cs]
+        listed = ", ".join(used[:-1]) + " and " + used[-1]
+        extra = {k: v for k, v in cs[0].extra.items() if k not in ("outside_K",)}
+        extra["outside_K"] = [float(c.extra["outside_K"]) for c in cs]
+        out.append(Caveat("model-range", f"{head}; used at {listed}: extrapolated",
+                          component, extra, about=""))
+    return out
+
+
 def group_temperature_ranges(caveats) -> list[Caveat]:
     """One caveat per temperature instead of one per parameter used outside its temperature
     range (the same fact, many parameters): "at 100.1 °C (the boiling point) the parameters

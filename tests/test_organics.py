@@ -275,3 +275,17 @@ def test_closed_water_form_equals_multicomponent_nrtl():
         keep = rng.random(300) < 0.5
         part = c[keep] + organics.ln_water_activity_at(pairs, T[keep], *(v[keep] for v in sums))
         np.testing.assert_allclose(part, ref[keep], rtol=1e-12, atol=1e-14)
+
+def test_one_range_note_per_ingredient_not_per_temperature():
+    """A syrup evaluated at 25 °C, with its freezing and boiling points: glucose's data
+    (freezing points only, −5 to 0 °C) are used at all three temperatures; the warnings say
+    so once, naming the three, instead of three times."""
+    from solutions.evaluate import evaluate
+    from solutions.recipe import read_recipe
+    d = evaluate(read_recipe("ingredient,amount,unit\nsucrose,550,g\n"
+                             "glucose monohydrate,120,g\nwater,330,g\n")).to_dict()
+    notes = [w for w in d["warnings"] if w.startswith("activity of Glucose monohydrate")]
+    assert len(notes) == 1, notes
+    assert "the solution's temperature" in notes[0] and "the freezing point" in notes[0] \
+        and "the boiling point" in notes[0]
+    assert "-0 °C" not in " ".join(d["warnings"])

@@ -324,6 +324,12 @@ def withheld(labels, pairs, bs, M_solvent: float = M_WATER, T=None):
     return mask, cav
 
 
+def _celsius(T: float) -> str:
+    """A temperature [K] in whole °C, never "-0"."""
+    t = round(T - 273.15)
+    return f"{t + 0:d}"
+
+
 def validity(labels, pairs, bs, T) -> list[Caveat]:
     """Notes that do not withhold a value: temperature outside a pair's data, mixed
     organics without organic–organic parameters."""
@@ -337,12 +343,13 @@ def validity(labels, pairs, bs, T) -> list[Caveat]:
         if np.any((T < lo) | (T > hi)):
             kind = ("temperature-independent τ (freezing-point data only)"
                     if not p.temperature_dependent else "τ(T) fitted")
+            outside = float(np.max(np.where((T < lo) | (T > hi), T, -np.inf)))
+            head = (f"activity of {lab} in water: its data span {_celsius(p.T_min)} to "
+                    f"{_celsius(p.T_max)} °C ({kind})")
             out.append(Caveat("model-range",
-                              f"activity of {lab} in water: its data span "
-                              f"{p.T_min - 273.15:.0f} to {p.T_max - 273.15:.0f} °C ({kind}); "
-                              f"{float(np.max(np.where((T < lo) | (T > hi), T, -np.inf))) - 273.15:.4g}"
-                              " °C is outside: extrapolated", lab,
-                              {"T_min_K": p.T_min, "T_max_K": p.T_max}))
+                              f"{head}; {outside - 273.15:.4g} °C is outside: extrapolated", lab,
+                              {"T_min_K": p.T_min, "T_max_K": p.T_max, "outside_K": outside,
+                               "head": head}))
     on_labels = [lab for lab, on in zip(labels, present) if on]
     if len(on_labels) > 1:
         out.append(Caveat("model-range",
