@@ -443,6 +443,10 @@ def _volatile_names(comp: Composition, terms: ActivityTerms) -> list[str]:
     return [lab for lab, cols in groups if comp.solutes[cols[0]].solute in vk]
 
 
+#: share of the vapor [1] from which the organics' part is explained in a note
+VOLATILE_NOTE_SHARE = 0.01
+
+
 def _volatile_reading(names, partial, p_pure, with_boiling: bool) -> Caveat:
     """How to read the vapor figures of a solution whose solutes are volatile too."""
     solutes = " and ".join(names[1:])
@@ -530,7 +534,10 @@ def colligative(comp: Composition, T, P=P_ATM, model: str = "nonideal", rho=None
         p_liq = p_liq + organic
         partial = {n: vap.partial_pressures[:, i] for i, n in enumerate(vap.names)}
         partial[vap.names[0]] = p_stable - organic
-        caveats.append(_volatile_reading(vap.names, partial, p_pure, with_boiling))
+        # how to read the vapor figures, where the organics' share of the vapor shows
+        share = organic / np.where(p_stable > 0, p_stable, np.inf)
+        if len(vap.names) > 1 and np.any(share >= VOLATILE_NOTE_SHARE):
+            caveats.append(_volatile_reading(vap.names, partial, p_pure, with_boiling))
         flash, cav = flash_point(comp, model, terms)
         caveats.extend(_tag(c, "vapor") for c in cav)
     Tb, dTb = nan, nan

@@ -614,3 +614,16 @@ def test_mixture_phi_continuous_in_temperature():
     phi = mix.osmotic_coefficient(mix.ion_molalities(b), T)
     assert np.all(np.isfinite(phi))
     assert np.max(np.abs(np.diff(phi))) < 2e-5
+
+
+def test_one_note_per_salt_used_outside_its_temperatures():
+    """A coolant with dipotassium phosphate, whose Pitzer parameters are for 25 °C only,
+    evaluated at 25 °C with its freezing and boiling points: one note names both
+    temperatures it is used at, with the salt named as the recipe names it."""
+    from solutions.evaluate import evaluate
+    from solutions.recipe import read_recipe
+    d = evaluate(read_recipe("recipes/chiller_coolant.csv")).to_dict()
+    notes = [w for w in d["warnings"] if "K2HPO4" in w and "25 °C only" in w]
+    assert len(notes) == 1, notes
+    assert notes[0].startswith("Dipotassium phosphate (K2HPO4)")
+    assert "the freezing point" in notes[0] and "the boiling point" in notes[0]

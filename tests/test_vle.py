@@ -173,3 +173,15 @@ def test_no_vapor_numbers_from_freezing_only_fits():
     assert np.isnan(r.flash_point[0])
     assert any(c.kind == "beyond-data" and "freezing points only" in c.message
                for c in r.caveats)
+
+
+@pytest.mark.parametrize("recipe", ["recipes/chiller_coolant.csv", "recipes/cryo_medium.csv"])
+def test_no_vapor_reading_note_where_the_organics_barely_evaporate(recipe):
+    """Propylene glycol's share of the vapor over a coolant is a few parts in 10 000, and
+    DMSO's vapor is not computed at all: the note on reading a volatile mixture's vapor
+    figures would only confuse there (it is for ethanol-like solutes)."""
+    from solutions.evaluate import evaluate
+    from solutions.recipe import read_recipe
+    d = evaluate(read_recipe(recipe)).to_dict()
+    assert not [w for w in d["warnings_detail"] if w["kind"] == "volatile-solute"
+                and "evaporate" in w["message"]]

@@ -293,9 +293,16 @@ class ActivityTerms:
             return c
         pattern = re.compile(r"(?<![\w(])(" + "|".join(re.escape(k) for k in
                              sorted(names, key=len, reverse=True)) + r")(?![\w)])")
-        msg = pattern.sub(lambda m: f"{names[m.group(1)]} ({m.group(1)})", c.message)
+        def named(text: str) -> str:
+            return pattern.sub(lambda m: f"{names[m.group(1)]} ({m.group(1)})", text)
+        msg = named(c.message)
+        if msg == c.message:
+            return c
         comp = pattern.sub(lambda m: names[m.group(1)], c.component) if c.component else None
-        return replace(c, message=msg, component=comp) if msg != c.message else c
+        extra = c.extra
+        if extra and "head" in extra:      # the words a grouped note starts with
+            extra = {**extra, "head": named(extra["head"])}
+        return replace(c, message=msg, component=comp, extra=extra)
 
 
 def activity_terms(comp: Composition, model: str = "nonideal") -> ActivityTerms:

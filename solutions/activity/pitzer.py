@@ -570,9 +570,13 @@ def _range_caveat(name: str, quantity: str, unit: str, values: np.ndarray,
     else:
         msg = (f"{name}: {quantity} {shown:.4g} {u} is outside the range {lo} to {hi} {u} "
                f"of {what}; the value is extrapolated")
-    return Caveat("model-range", msg, component=name,
-                  extra={"quantity": quantity, "value": worst, "low": low, "high": high,
-                         "unit": unit, "model": what})
+    extra = {"quantity": quantity, "value": worst, "low": low, "high": high, "unit": unit,
+             "model": what}
+    if u == "°C":   # several temperatures of one salt become one note (errors.group_outside_temperatures)
+        extra["head"] = (f"{name}: {what} are for {lo} °C only" if lo == hi else
+                         f"{name}: {what} cover {lo} to {hi} °C")
+        extra["outside_K"] = worst
+    return Caveat("model-range", msg, component=name, extra=extra)
 
 
 def validity(salt: PitzerSalt, b, T) -> list[Caveat]:
