@@ -627,3 +627,14 @@ def test_one_note_per_salt_used_outside_its_temperatures():
     assert len(notes) == 1, notes
     assert notes[0].startswith("Dipotassium phosphate (K2HPO4)")
     assert "the freezing point" in notes[0] and "the boiling point" in notes[0]
+
+
+def test_a_pair_of_ions_from_two_salts_is_named_by_its_ions():
+    """Potassium chloride and sodium acetate together bring K⁺ and acetate⁻: the note on
+    the K⁺-acetate⁻ parameters names the pair by its ions (no ingredient of the recipe is
+    potassium acetate), not by a bare formula."""
+    from solutions.evaluate import evaluate
+    from solutions.recipe import read_recipe
+    d = evaluate(read_recipe("recipes/buffered_eye_rinse.csv")).to_dict()
+    assert any(w.startswith("the K⁺-acetate⁻ pair (KC2H3O2)") for w in d["warnings"])
+    assert not any(w.startswith("KC2H3O2") for w in d["warnings"])

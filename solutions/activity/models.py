@@ -289,6 +289,12 @@ class ActivityTerms:
             if kind == "pitzer":
                 for key in {par[2], getattr(par[1], "name", None)} - {None}:
                     names[key] = label
+        mix = self.electrolytes
+        if mix is not None:   # a pair of ions from two different salts of the recipe
+            labels = mix.labels()
+            for cat, an, salt in mix.pairs:      # ion indices
+                if salt is not None and salt.name not in names:
+                    names[salt.name] = f"the {labels[cat]}-{labels[an]} pair"
         if not names:
             return c
         pattern = re.compile(r"(?<![\w(])(" + "|".join(re.escape(k) for k in
