@@ -221,11 +221,14 @@ def _density(text) -> float | None:
         raise OptionError("--density", text, exc.reason) from None
     if rho is None:
         return None
-    if 500 <= rho <= 3000:
+    from .units import LIQUID_DENSITY_G_PER_ML
+    lo, hi = LIQUID_DENSITY_G_PER_ML
+    if 1e3 * lo <= rho <= 1e3 * hi:
         raise OptionError("--density", text, f"looks like kg/m³; the option is in g/mL — "
                                              f"did you mean {rho / 1000:g}?")
-    if not (0.5 <= rho <= 3.0):
-        raise OptionError("--density", text, "a solution density is between 0.5 and 3 g/mL")
+    if not (lo <= rho <= hi):
+        raise OptionError("--density", text,
+                          f"a solution density is between {lo:g} and {hi:g} g/mL")
     return rho * 1e3
 
 

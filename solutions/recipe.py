@@ -33,7 +33,8 @@ from .composition import Composition
 from .density import solution_density
 from .errors import Caveat, IngredientError, NumberError, RecipeError, UnitParseError
 from .ingredients import Ingredient, Library, default_library, ingredient_from_record
-from .units import Amount, Basis, is_solvent_rule, parse_unit, read_number
+from .units import (LIQUID_DENSITY_G_PER_ML, Amount, Basis, is_solvent_rule, parse_unit,
+                    read_number)
 from .water import water_density
 
 if TYPE_CHECKING:  # pandas is imported only where a workbook or DataFrame is read
@@ -392,12 +393,13 @@ def _check_inline(kind: str, v: float, *, row: int, column: str, name: str) -> f
     liquid) [g/mL], ``ions`` or ``hydrate_water``; returns it or raises naming row and column."""
     where = dict(row=row, column=column, ingredient=name)
     if kind == "density":
-        if 500 <= v <= 3000:
+        lo, hi = LIQUID_DENSITY_G_PER_ML
+        if 1e3 * lo <= v <= 1e3 * hi:
             raise RecipeError(f"density {v:g} looks like kg/m³: the column is in g/mL — did "
                               f"you mean {v / 1000:g}?", **where)
-        if not (0.5 <= v <= 3.0):
-            raise RecipeError(f"density {v:g} g/mL is not a liquid's density (0.5–3 g/mL)",
-                              **where)
+        if not (lo <= v <= hi):
+            raise RecipeError(f"density {v:g} g/mL is not a liquid's density ({lo:g}–{hi:g} "
+                              "g/mL)", **where)
     elif kind == "molar_mass":
         if not (1.0 <= v <= 1e7):
             raise RecipeError(f"molar mass {v:g} g/mol is outside 1–10 000 000 g/mol", **where)
@@ -561,13 +563,13 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
         # solutes; if that fails too, the recipe has no solution and says why
         if not x[0] > 0 or np.any(x[3] < 0):
             need = _per_volume_need(rows)
-            if rho_measured is None and not denser and rho < need * 1.1 < 3000.0:
+            if rho_measured is None and not denser and rho < need * 1.1 < _RHO_MAX:
                 rho, denser = need * 1.1, True
                 continue
             _too_much_per_volume(rows, need)
         if x[2] < 0:
             if rho_measured is None and not denser and x[0] > 0:
-                rho, denser = min(rho * (x[0] - x[2]) / x[0] * 1.05, 3000.0), True
+                rho, denser = min(rho * (x[0] - x[2]) / x[0] * 1.05, _RHO_MAX), True
                 continue
             break   # not enough room for the solvent: reported below
         comp = _composition(rows, solvent, M, h, x)
@@ -594,6 +596,8 @@ def resolve(recipe: Recipe, *, batch: tuple[str, float] | None = None,
         res = _scale_to(res, batch)
     return res
 
+
+_RHO_MAX = 1e3 * LIQUID_DENSITY_G_PER_ML[1]   # kg/m³
 
 _PER_LITRE = {Basis.MASS_PER_VOLUME: lambda r: r.value_si,
               Basis.MOLARITY: lambda r: r.value_si * r.ingredient.M,

@@ -34,6 +34,9 @@ __all__ = ["Basis", "Amount", "parse_unit", "is_solvent_rule", "read_number",
 
 #: unit texts longer than this are refused at once (no unit spelling is near it)
 MAX_UNIT_LENGTH = 40
+#: densities a liquid (a solution or a pure liquid) can have here [g/mL]; a value 1000×
+#: inside this range was typed in kg/m³
+LIQUID_DENSITY_G_PER_ML = (0.5, 3.0)
 
 
 class Basis(enum.Enum):

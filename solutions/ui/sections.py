@@ -25,6 +25,7 @@ import streamlit as st
 
 from .._version import __version__
 from ..charts import Curve, vapor_pressure_range
+from ..units import LIQUID_DENSITY_G_PER_ML
 from ..report import html_report, json_text, property_text, summary_csv
 from . import state as S
 from .compute import (CAPTIONS, PageResult, below_freezing, chart_specs,
@@ -188,7 +189,8 @@ def render_sidebar() -> None:
         b2.selectbox("Unit", S.BATCH_UNITS, key="batch_unit", disabled=not ss["use_batch"])
         st.subheader("Density and volumes")
         st.checkbox("Use a measured density", key="use_measured_density")
-        st.number_input("Measured density (g/mL)", min_value=0.5, max_value=3.0, step=0.001,
+        st.number_input("Measured density (g/mL)", min_value=LIQUID_DENSITY_G_PER_ML[0],
+                        max_value=LIQUID_DENSITY_G_PER_ML[1], step=0.001,
                         format="%.4f", key="rho_measured",
                         disabled=not ss["use_measured_density"])
         st.number_input("Recipe volumes read at (°C)", min_value=0.0, max_value=80.0,
