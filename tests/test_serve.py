@@ -104,6 +104,17 @@ def test_first_answer_sets_the_cookie_and_later_ones_keep_it(front):
         assert r.headers["Set-Cookie"] is None and r.read() == page
 
 
+def test_a_chunked_request_body_is_refused_plainly(front):
+    """The front passes bodies on by their length; a chunked body (which browsers do not
+    send to this page) gets 411 rather than a dropped connection."""
+    import socket
+    port, _ = front
+    with socket.create_connection(("127.0.0.1", port), timeout=10) as s:
+        s.sendall(b"POST /x HTTP/1.1\r\nHost: 127.0.0.1\r\nTransfer-Encoding: chunked\r\n\r\n"
+                  b"0\r\n\r\n")
+        assert s.recv(200).startswith(b"HTTP/1.1 411 ")
+
+
 def test_pages_through_the_front_follow_their_edits(front):
     port, _ = front
 

@@ -32,7 +32,7 @@ import sys
 import tempfile
 import time
 import urllib.request
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 
 #: the cookie that keeps a browser on its server
@@ -59,8 +59,6 @@ class Front:
     """The front: picks a worker for each request and joins the two connections."""
 
     workers: list[Worker]
-    served: int = 0
-    failures: list[str] = field(default_factory=list)
 
     def pick(self, head: bytes) -> tuple[int, bool]:
         """(index of the worker for a request ``head``, whether the cookie was valid)."""
@@ -108,10 +106,11 @@ class Front:
             writer.write(reply)
             await _copy_to_end(up_r, writer)
             up_w.close()
-            self.served += 1
-        except (ConnectionError, asyncio.IncompleteReadError, asyncio.LimitOverrunError,
-                ValueError) as exc:
-            self.failures.append(f"{type(exc).__name__}: {exc}")
+        except ValueError:      # a request the front does not pass on (a chunked body)
+            writer.write(b"HTTP/1.1 411 Length Required\r\nContent-Length: 0\r\n"
+                         b"Connection: close\r\n\r\n")
+        except (ConnectionError, asyncio.IncompleteReadError, asyncio.LimitOverrunError):
+            pass                # a browser that went away, or a head over MAX_HEAD
         finally:
             try:
                 writer.close()
