@@ -462,7 +462,8 @@ def _volatile_reading(names, partial, p_pure, with_boiling: bool) -> Caveat:
     if with_boiling:
         text += ("; the boiling point is the mixture's bubble point, which lies below pure "
                  "water's when the volatile part is large enough (a negative elevation)")
-    return Caveat("volatile-solute", text, None, about="vapor")
+    return Caveat("volatile-solute", text, None,
+                  about="vapor boiling" if with_boiling else "vapor")
 
 
 def _bracketed_root(f, lo, hi, bs, N):

@@ -120,7 +120,8 @@ class Caveat:
     ``"eutectic"``, ``"ideal-fallback"``, ``"ice"``, ``"boiling"`` ...); ``about`` says which
     results it bears on: ``"density"`` (density, volume, molarity), ``"activity"``
     (properties at the solution temperature), ``"freezing"``, ``"boiling"``, ``"vapor"``
-    (vapor pressure) or ``"recipe"``; empty when it bears on everything.
+    (vapor pressure) or ``"recipe"``, or several of them separated by spaces; empty when it
+    bears on everything.
     """
 
     kind: str

@@ -225,16 +225,16 @@ def warning_links(d: dict) -> dict[str, list[int]]:
     """Which warnings (1-based numbers in ``d['warnings']``) bear on which property, read
     from each warning's ``about`` tag (``warnings_detail``) and the property registry.
 
-    >>> d = {"warnings": ["w"], "warnings_detail": [{"about": "density", "kind": "x"}]}
-    >>> warning_links(d)["volume_mL"]
-    [1]
+    >>> d = {"warnings": ["w", "v"], "warnings_detail": [{"about": "density", "kind": "x"},
+    ...      {"about": "vapor boiling", "kind": "y"}]}
+    >>> warning_links(d)["volume_mL"], warning_links(d)["boiling_point_C"]
+    ([1], [2])
     """
     links: dict[str, list[int]] = {k: [] for k, _, _ in PROPERTY_LABELS}
     groups = about_groups()
     for i, w in enumerate(d.get("warnings_detail") or [], start=1):
-        keys = tuple(groups.get(w.get("about", ""), ()))
-        if w.get("kind") == "volatile-solute":   # a volatile solute bears on boiling too
-            keys = tuple(dict.fromkeys(tuple(groups["boiling"]) + keys))
+        tags = (w.get("about") or "").split() or [""]     # one tag, several, or none
+        keys = dict.fromkeys(k for t in tags for k in groups.get(t, ()))
         for k in keys:
             links[k].append(i)
     return links

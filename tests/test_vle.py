@@ -154,7 +154,7 @@ def test_volatile_mixture_says_how_to_read_its_vapor_figures():
         s["vapor_pressure_pure_kPa"] - s["partial_pressures_kPa"]["Water"], rel=1e-9)
     assert s["boiling_point_C"] < 99.97
     note = next(w for w in d["warnings_detail"] if w["kind"] == "volatile-solute")
-    assert note["about"] == "vapor" and "bubble point" in note["message"]
+    assert note["about"] == "vapor boiling" and "bubble point" in note["message"]
     for name, p in s["partial_pressures_kPa"].items():
         assert f"{name.lower()} {p:.4g} kPa" in note["message"]
     # a salt solution has no such warning
